@@ -1,0 +1,149 @@
+// Machine state turn by turn: synchronous-particle kinematics, revolution period, slip factors, RF phases.
+// Units: energies in eV (pc in eV), times in s, lengths in m, phases in rad, voltages in V.
+// Turn n: the synchronous particle crosses the RF with energy Es(n) and gains dEs(n) = Es(n+1) − Es(n).
+// Ramps (PHYSICS.md §4): gainPerTurn adds a fixed energy; bDot advances p·c by Z·c·ρ·Ḃ·T0 per turn;
+// momentumRate advances p·c by (d(pc)/dt)·T0 per turn.
+import { C_LIGHT, DEG, TWO_PI } from './constants.ts';
+import { eta0, eta1, fromKinetic, fromMomentum, fromTotal, type Compaction, type Kinematics } from './kinematics.ts';
+import { makeParticle, type Particle } from './particle.ts';
+import type { RfWave } from './rf.ts';
+import type { Setup } from './setup/schema.ts';
+import { solveSyncPhase, stableSlope, type Slope } from './synchronous.ts';
+
+export interface RfSystemState {
+  h: number;
+  /** Peak voltage [V]. */
+  V: number;
+  /** Offset Φ_k from the main system [rad]. */
+  offset: number;
+  /** Fraction of the circumference where the gap sits. */
+  position: number;
+  /** Phase seen by the synchronous particle, φ_k = (h_k/h_1)·φ_s + Φ_k [rad]. */
+  phi: number;
+}
+
+export interface MachineState {
+  turn: number;
+  /** Time since turn 0 [s]. */
+  time: number;
+  particle: Particle;
+  circumference: number;
+  compaction: Compaction;
+  Es: number;
+  gamma: number;
+  beta: number;
+  pc: number;
+  T: number;
+  T0: number;
+  f0: number;
+  omega0: number;
+  eta0: number;
+  eta1: number;
+  /** Energy gained by the synchronous particle on this turn [eV]. */
+  dEs: number;
+  /** Main harmonic number h_1. */
+  h: number;
+  omegaRf: number;
+  rf: RfSystemState[];
+  wave: RfWave;
+  slope: Slope;
+  /** Main-harmonic synchronous phase [rad] (NaN when no bucket). */
+  phiS: number;
+  /** Why there is no stable phase, or null. */
+  noBucket: string | null;
+}
+
+/** Compaction factors from the ring block. */
+export function compactionOf(s: Setup): Compaction {
+  const a0 = s.ring.alpha0 ?? 1 / (s.ring.gammaT! * s.ring.gammaT!);
+  return { alpha0: a0, alpha1: s.ring.alpha1, alpha2: s.ring.alpha2 };
+}
+
+/** Kinematics of the synchronous particle at turn 0. */
+export function startKinematics(s: Setup, p: Particle): Kinematics {
+  const { quantity, value } = s.energy.start;
+  switch (quantity) {
+    case 'kinetic':
+      return fromKinetic(value, p.mass);
+    case 'kineticPerNucleon':
+      return fromKinetic(value * p.A, p.mass);
+    case 'total':
+      return fromTotal(value, p.mass);
+    case 'momentum':
+      return fromMomentum(value, p.mass);
+  }
+}
+
+/** Steps the synchronous particle along the energy program, one turn at a time, updating in place. */
+export class MachineStepper {
+  readonly state: MachineState;
+  private readonly setup: Setup;
+
+  constructor(setup: Setup) {
+    this.setup = setup;
+    const p = makeParticle(setup.particle);
+    const k = startKinematics(setup, p);
+    const sys = setup.rf.systems;
+    const h = sys[0].harmonic;
+    const rf = sys.map((r) => ({ h: r.harmonic, V: r.voltage, offset: r.phase * DEG, position: r.position, phi: 0 }));
+    this.state = {
+      turn: 0, time: 0, particle: p, circumference: setup.ring.circumference, compaction: compactionOf(setup),
+      Es: k.E, gamma: k.gamma, beta: k.beta, pc: k.pc, T: k.T, T0: 0, f0: 0, omega0: 0, eta0: 0, eta1: 0, dEs: 0,
+      h, omegaRf: 0, rf,
+      wave: { ZV: rf.map((r) => p.Z * r.V), n: rf.map((r) => r.h / h), offset: rf.map((r) => r.offset), dEs: 0 },
+      slope: 'rising', phiS: NaN, noBucket: null,
+    };
+    this.refresh();
+  }
+
+  /** Advance to the next turn. */
+  advance(): void {
+    const s = this.state;
+    s.time += s.T0;
+    s.turn += 1;
+    const k = fromMomentum(s.pc + this.momentumStep(), s.particle.mass);
+    s.Es = k.E; s.gamma = k.gamma; s.beta = k.beta; s.pc = k.pc; s.T = k.T;
+    this.refresh();
+  }
+
+  // Change of p·c [eV] during the current turn.
+  private momentumStep(): number {
+    const s = this.state;
+    const r = this.setup.energy.ramp;
+    switch (r.kind) {
+      case 'flat':
+        return 0;
+      case 'gainPerTurn':
+        return fromTotal(s.Es + r.value, s.particle.mass).pc - s.pc;
+      case 'bDot':
+        return Math.abs(s.particle.Z) * C_LIGHT * this.setup.ring.bendingRadius! * r.value * s.T0;
+      case 'momentumRate':
+        return r.value * s.T0;
+    }
+  }
+
+  // Recompute the per-turn quantities from Es and the ramp.
+  private refresh(): void {
+    const s = this.state;
+    s.T0 = s.circumference / (s.beta * C_LIGHT);
+    s.f0 = 1 / s.T0;
+    s.omega0 = TWO_PI * s.f0;
+    s.omegaRf = s.h * s.omega0;
+    s.eta0 = eta0(s.compaction, s.gamma);
+    s.eta1 = eta1(s.compaction, s.gamma, s.beta);
+    const next = fromMomentum(s.pc + this.momentumStep(), s.particle.mass);
+    s.dEs = next.E - s.Es;
+    (s.wave as { dEs: number }).dEs = s.dEs;
+    const want = this.setup.rf.slope;
+    s.slope = want === 'auto' ? stableSlope(s.eta0) : want;
+    const sol = solveSyncPhase(s.wave, s.slope);
+    s.phiS = sol.ok ? sol.phiS : NaN;
+    s.noBucket = sol.ok ? null : sol.reason;
+    for (const r of s.rf) r.phi = (r.h / s.h) * s.phiS + r.offset;
+  }
+}
+
+/** Machine state at turn 0 of a setup. */
+export function machineAtStart(setup: Setup): MachineState {
+  return new MachineStepper(setup).state;
+}

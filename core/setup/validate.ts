@@ -1,0 +1,83 @@
+// Parse, migrate and validate a setup document. Never throws: returns the setup or a list of errors, each
+// naming the field (dotted path), the value given and what is allowed.
+import type { z } from 'zod';
+import { makeParticle } from '../particle.ts';
+import { fmtNum } from './fields.ts';
+import { migrate } from './migrate.ts';
+import { setupSchema, type Setup } from './schema.ts';
+
+export interface SetupIssue {
+  /** Dotted field path, e.g. "rf.systems[0].voltage". */
+  path: string;
+  /** The value found there (undefined if missing). */
+  value: unknown;
+  message: string;
+}
+
+export type ParseResult = { ok: true; setup: Setup; migratedFrom?: number } | { ok: false; errors: SetupIssue[] };
+
+/** One line per issue: `path = value: message`. */
+export function formatIssue(i: SetupIssue): string {
+  return `${i.path || '(setup)'} = ${showValue(i.value)}: ${i.message}`;
+}
+
+/** Validate an already-parsed JSON value (migrating older versions first). */
+export function parseSetup(input: unknown): ParseResult {
+  const m = migrate(input);
+  if (!m.ok) return { ok: false, errors: [m.error] };
+  const r = setupSchema.safeParse(m.doc);
+  if (!r.success) return { ok: false, errors: r.error.issues.map((i) => toIssue(i, m.doc)) };
+  const extra = crossChecks(r.data);
+  if (extra.length) return { ok: false, errors: extra };
+  return m.from === undefined ? { ok: true, setup: r.data } : { ok: true, setup: r.data, migratedFrom: m.from };
+}
+
+/** Validate JSON text. */
+export function parseSetupText(text: string): ParseResult {
+  let doc: unknown;
+  try {
+    doc = JSON.parse(text);
+  } catch (e) {
+    return { ok: false, errors: [{ path: '', value: text.slice(0, 40), message: `not valid JSON (${(e as Error).message})` }] };
+  }
+  return parseSetup(doc);
+}
+
+// Combinations the schema cannot express field by field.
+function crossChecks(s: Setup): SetupIssue[] {
+  const out: SetupIssue[] = [];
+  const p = makeParticle(s.particle);
+  const st = s.energy.start;
+  if (st.quantity === 'total' && st.value <= p.mass)
+    out.push({ path: 'energy.start.value', value: st.value, message: `total energy must exceed the rest energy ${fmtNum(p.mass)} eV` });
+  if (st.quantity === 'kineticPerNucleon' && p.A === 0)
+    out.push({ path: 'energy.start.quantity', value: st.quantity, message: 'energy per nucleon needs an ion or a proton' });
+  if (s.energy.ramp.kind === 'bDot' && s.ring.bendingRadius === undefined)
+    out.push({ path: 'ring.bendingRadius', value: undefined, message: 'a B-field ramp (bDot) needs the bending radius' });
+  return out;
+}
+
+function toIssue(i: z.core.$ZodIssue, doc: unknown): SetupIssue {
+  const path = i.path.map((k) => (typeof k === 'number' ? `[${k}]` : `.${String(k)}`)).join('').replace(/^\./, '');
+  let message = i.message;
+  if (i.code === 'unrecognized_keys') message = `unknown field(s): ${i.keys.join(', ')}`;
+  if (i.code === 'invalid_union' || i.code === 'invalid_value') message = i.message.replace(/^Invalid input: /, '');
+  if (message === 'Required' || /received undefined/.test(message)) message = 'is required';
+  return { path, value: valueAt(doc, i.path), message };
+}
+
+function valueAt(doc: unknown, path: readonly PropertyKey[]): unknown {
+  let v: unknown = doc;
+  for (const k of path) {
+    if (v === null || typeof v !== 'object') return undefined;
+    v = (v as Record<PropertyKey, unknown>)[k];
+  }
+  return v;
+}
+
+function showValue(v: unknown): string {
+  if (v === undefined) return '(missing)';
+  if (typeof v === 'number') return fmtNum(v);
+  const s = JSON.stringify(v);
+  return s.length > 60 ? s.slice(0, 57) + '...' : s;
+}
