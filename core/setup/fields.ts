@@ -37,5 +37,6 @@ function fmtRange(min: number, max: number): string {
 export function fmtNum(x: number): string {
   if (x === 0) return '0';
   const a = Math.abs(x);
-  return a >= 1e-3 && a < 1e6 ? String(Number(x.toPrecision(6))) : x.toExponential().replace('e+', 'e');
+  const p = Number(x.toPrecision(6));
+  return a >= 1e-3 && a < 1e6 ? String(p) : p.toExponential().replace('e+', 'e');
 }

@@ -48,7 +48,7 @@ const rfSystem = z
 const rf = z
   .object({
     systems: z.array(rfSystem).min(1, { error: 'needs at least one RF system' }).max(8, { error: 'at most 8 RF systems' }),
-    slope: z.enum(['auto', 'rising', 'falling']).default('auto'),
+    slope: z.enum(['auto', 'rising', 'falling']).default('auto').meta({ description: 'RF slope carrying the bunch: auto picks by the slip factor (rising below transition, falling above)' }),
   })
   .strict()
   .refine((r) => r.systems[0].phase === 0, { error: 'the first (main) system defines the phase: its phase must be 0', path: ['systems', 0, 'phase'] })
@@ -59,8 +59,8 @@ const rf = z
 
 const energyStart = z
   .object({
-    quantity: z.enum(['kinetic', 'total', 'momentum', 'kineticPerNucleon']),
-    value: num('eV', 1, 1e14, 'energy of the synchronous particle at turn 0 (eV, or eV/c for momentum, eV/u for per nucleon)'),
+    quantity: z.enum(['kinetic', 'total', 'momentum', 'kineticPerNucleon']).meta({ description: 'what value gives: kinetic or total energy of the whole particle, p·c, or kinetic energy per nucleon' }),
+    value: num('eV', 1, 1e14, 'energy of the synchronous particle at turn 0 (eV; p·c in eV for momentum; eV per nucleon for kineticPerNucleon)'),
   })
   .strict();
 
@@ -76,18 +76,18 @@ const size = z.discriminatedUnion('by', [
   z
     .object({
       by: z.literal('emittance'),
-      convention: z.enum(['rms', 'fourSigma', 'contour']),
+      convention: z.enum(['rms', 'fourSigma', 'contour']).meta({ description: 'rms: sqrt(<dt²><dE²>−<dt·dE>²), no π; fourSigma: 4π·σt·σE; contour: area of the Hamiltonian contour bounding the bunch' }),
       value: num('eV·s', 1e-12, 1e3, 'longitudinal emittance in the stated convention'),
     })
     .strict(),
 ]);
 
 const distribution = z.discriminatedUnion('kind', [
-  z.object({ kind: z.literal('matched'), shape: z.enum(['gaussian', 'parabolic', 'flat']), size }).strict(),
+  z.object({ kind: z.literal('matched'), shape: z.enum(['gaussian', 'parabolic', 'flat']).meta({ description: 'distribution as a function of the Hamiltonian' }), size }).strict(),
   z
     .object({
       kind: z.literal('unmatched'),
-      shape: z.enum(['gaussian', 'parabolic']),
+      shape: z.enum(['gaussian', 'parabolic']).meta({ description: 'shape in time and in energy' }),
       rmsLength: num('s', 1e-15, 1e-3, 'rms bunch length'),
       mismatch: num('', 0.05, 20, 'ratio of the rms energy spread to the linearly matched one (1 = matched)').default(1),
     })
@@ -113,7 +113,7 @@ const beam = z
 const run = z
   .object({
     turns: int('', 1, 100_000_000, 'number of turns to track').default(1000),
-    drift: z.enum(['linear', 'exact']).default('exact'),
+    drift: z.enum(['linear', 'exact']).default('exact').meta({ description: 'linear: dt += T0·η0·δ; exact: time of flight from the momentum offset with α0, α1, α2' }),
     momentumAperture: num('', 1e-6, 0.5, 'particles with |Δp/p| beyond this are lost').default(0.02),
     diagnosticsEvery: int('turns', 1, 1_000_000, 'record diagnostics every this many turns').default(10),
     profileBins: int('', 16, 4096, 'bins of the line-density profile').default(256),
@@ -122,9 +122,9 @@ const run = z
 
 export const setupSchema = z
   .object({
-    version: z.literal(SETUP_VERSION, { error: `must be ${SETUP_VERSION} (older versions are migrated)` }),
-    title: z.string().max(200).default(''),
-    note: z.string().max(2000).default(''),
+    version: z.literal(SETUP_VERSION, { error: `must be ${SETUP_VERSION} (older versions are migrated)` }).meta({ description: 'schema version of this file' }),
+    title: z.string().max(200).default('').meta({ description: 'short name of the setup' }),
+    note: z.string().max(2000).default('').meta({ description: 'free text, e.g. that the machine is fictional' }),
     particle,
     ring,
     energy: z.object({ start: energyStart, ramp: ramp.default({ kind: 'flat' }) }).strict(),

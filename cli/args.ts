@@ -1,0 +1,39 @@
+// Command-line argument parsing: positional arguments plus --name value / --name=value options.
+import { parseArgs } from 'node:util';
+
+export class UsageError extends Error {}
+
+export interface ParsedArgs {
+  command: string | undefined;
+  positional: string[];
+  options: Record<string, string | boolean | undefined>;
+}
+
+const OPTIONS = {
+  turns: { type: 'string' },
+  every: { type: 'string' },
+  out: { type: 'string' },
+  particles: { type: 'string' },
+  format: { type: 'string' },
+  help: { type: 'boolean', short: 'h' },
+} as const;
+
+/** Split argv into the command, its positional arguments and options. */
+export function parseCommandLine(argv: string[]): ParsedArgs {
+  try {
+    const { values, positionals } = parseArgs({ args: argv, options: OPTIONS, allowPositionals: true, strict: true });
+    return { command: positionals[0], positional: positionals.slice(1), options: values };
+  } catch (e) {
+    throw new UsageError((e as Error).message);
+  }
+}
+
+/** Read an integer option within [min, max], or the default. */
+export function intOption(opts: ParsedArgs['options'], name: string, min: number, max: number, dflt: number): number {
+  const raw = opts[name];
+  if (raw === undefined) return dflt;
+  const v = Number(raw);
+  if (typeof raw !== 'string' || !Number.isInteger(v) || v < min || v > max)
+    throw new UsageError(`--${name} = ${String(raw)}: must be an integer in [${min}, ${max}]`);
+  return v;
+}

@@ -1,0 +1,69 @@
+// Phasewell command line: `bucket <setup.json>` and `track <setup.json> --turns N [--every K] [--out f.csv]
+// [--particles p.csv]`. Bad input: one line naming the field, the value and the allowed range; exit code 2.
+import { readFileSync, writeFileSync } from 'node:fs';
+import { formatIssue, parseSetupText } from '../core/setup/validate.ts';
+import type { Setup } from '../core/setup/schema.ts';
+import { intOption, parseCommandLine, UsageError } from './args.ts';
+import { bucketReport } from './bucketReport.ts';
+import { particlesCsv, trackSetup } from './track.ts';
+
+const USAGE = `usage:
+  phasewell bucket <setup.json>
+  phasewell track <setup.json> --turns N [--every K] [--out diagnostics.csv] [--particles final.csv]
+Results are for design exploration; machine protection and radiation safety follow local regulations and licensed practice.`;
+
+class InputError extends Error {}
+
+function loadSetup(path: string | undefined): Setup {
+  if (!path) throw new UsageError('missing <setup.json>');
+  let text: string;
+  try {
+    text = readFileSync(path, 'utf8');
+  } catch {
+    throw new InputError(`${path}: cannot read the file`);
+  }
+  const r = parseSetupText(text);
+  if (!r.ok) throw new InputError(`${path}: ${r.errors.map(formatIssue).join('; ')}`);
+  return r.setup;
+}
+
+function run(argv: string[]): number {
+  const a = parseCommandLine(argv);
+  if (a.options.help || !a.command) {
+    process.stdout.write(USAGE + '\n');
+    return a.command || a.options.help ? 0 : 2;
+  }
+  switch (a.command) {
+    case 'bucket': {
+      const setup = loadSetup(a.positional[0]);
+      process.stdout.write(JSON.stringify(bucketReport(setup), null, 2) + '\n');
+      return 0;
+    }
+    case 'track': {
+      const setup = loadSetup(a.positional[0]);
+      const turns = intOption(a.options, 'turns', 1, 100_000_000, setup.run.turns);
+      const every = intOption(a.options, 'every', 1, 100_000_000, setup.run.diagnosticsEvery);
+      const { log, tracker } = trackSetup(setup, { turns, every });
+      const csv = log.toCsv();
+      if (typeof a.options.out === 'string') writeFileSync(a.options.out, csv);
+      else process.stdout.write(csv);
+      if (typeof a.options.particles === 'string') writeFileSync(a.options.particles, particlesCsv(tracker));
+      return 0;
+    }
+    default:
+      throw new UsageError(`unknown command "${a.command}" (expected bucket or track)`);
+  }
+}
+
+try {
+  process.exitCode = run(process.argv.slice(2));
+} catch (e) {
+  if (e instanceof UsageError || e instanceof InputError) {
+    process.stderr.write(`phasewell: ${e.message}\n`);
+    process.exitCode = 2;
+  } else {
+    // A physics request the setup cannot satisfy (e.g. a bunch larger than the bucket) is also bad input.
+    process.stderr.write(`phasewell: ${(e as Error).message}\n`);
+    process.exitCode = 2;
+  }
+}
