@@ -106,6 +106,15 @@ export class MachineStepper {
     this.refresh();
   }
 
+  /** Continue at a given turn, time [s] and synchronous momentum p·c [eV] (e.g. after a setup change mid-run). */
+  resumeAt(turn: number, time: number, pc: number): void {
+    const s = this.state;
+    const k = fromMomentum(pc, s.particle.mass);
+    s.turn = turn; s.time = time;
+    s.Es = k.E; s.gamma = k.gamma; s.beta = k.beta; s.pc = k.pc; s.T = k.T;
+    this.refresh();
+  }
+
   // Change of p·c [eV] during the current turn.
   private momentumStep(): number {
     const s = this.state;

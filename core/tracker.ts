@@ -1,0 +1,111 @@
+// The symplectic one-turn map: RF kicks at each gap, then the drift over the arc to the next gap.
+// Units: dt in s (dt > 0 = late), dE in eV (E − E_s). PHYSICS.md §4.
+// Turn n: every gap kicks with the machine state of turn n (ω0(n), φ_k(n)); every arc drifts with the state
+// of turn n+1 (E_s(n+1), T0(n+1), η(n+1)), as in PHYSICS.md §4 where the drift follows the energy update.
+// Gaps: RF systems with equal `position` share one kick; gaps are visited in increasing position, the turn
+// starting at the first one, so dt is the arrival time at that gap. With distributed gaps every arc uses the
+// turn-(n+1) reference energy (the reference between gaps is not split: first order in ΔE_s/E_s per turn).
+// Added elements (collective kicks, radiation) run after the RF kicks of the last gap, with state n.
+import type { Bunch } from './bunch.ts';
+import { drift } from './elements/drift.ts';
+import { rfKick } from './elements/rfKick.ts';
+import type { Element } from './elements/types.ts';
+import { MachineStepper, type MachineState } from './machine.ts';
+import type { Setup } from './setup/schema.ts';
+
+interface Gap {
+  kick: Element;
+  drift: Element;
+}
+
+/** Tracks a bunch turn by turn through the RF gaps and arcs of a setup. */
+export class Tracker {
+  readonly bunch: Bunch;
+  private stepper: MachineStepper;
+  private ahead: MachineStepper | null = null; // state n+1, needed only with distributed gaps
+  private gaps: Gap[] = [];
+  private readonly extras: Element[] = [];
+
+  constructor(setup: Setup, bunch: Bunch) {
+    this.bunch = bunch;
+    this.stepper = new MachineStepper(setup);
+    this.build(setup);
+  }
+
+  /** Machine state of the next turn to be tracked. */
+  get machine(): MachineState {
+    return this.stepper.state;
+  }
+
+  /** Number of turns tracked so far (plus the start turn of the setup). */
+  get turn(): number {
+    return this.stepper.state.turn;
+  }
+
+  /** Track n turns; calls onTurn after each turn if given (for diagnostics every K turns). */
+  track(n: number, onTurn?: (t: Tracker) => void): void {
+    for (let i = 0; i < n; i++) {
+      this.step();
+      if (onTurn) onTurn(this);
+    }
+  }
+
+  /** Replace the setup keeping the beam, turn and the synchronous particle's momentum and time; applies from the next turn. */
+  updateSetup(setup: Setup): void {
+    const s = this.stepper.state;
+    const next = new MachineStepper(setup);
+    next.resumeAt(s.turn, s.time, s.pc);
+    this.stepper = next;
+    this.build(setup);
+  }
+
+  /** Add an element (e.g. a collective kick) to the per-turn sequence, after the RF kicks. */
+  addElement(e: Element): void {
+    this.extras.push(e);
+  }
+
+  private step(): void {
+    const b = this.bunch;
+    const cur = this.stepper.state;
+    const gaps = this.gaps;
+    const extras = this.extras;
+    if (this.ahead === null) {
+      gaps[0].kick.apply(b, cur);
+      for (let j = 0; j < extras.length; j++) extras[j].apply(b, cur);
+      this.stepper.advance(); // cur is now the state of turn n+1
+      gaps[0].drift.apply(b, cur);
+      return;
+    }
+    const nxt = this.ahead.state;
+    const last = gaps.length - 1;
+    for (let g = 0; g <= last; g++) {
+      gaps[g].kick.apply(b, cur);
+      if (g === last) for (let j = 0; j < extras.length; j++) extras[j].apply(b, cur);
+      gaps[g].drift.apply(b, nxt);
+    }
+    this.stepper.advance();
+    this.ahead.advance();
+  }
+
+  // Group RF systems by position into gaps, with the arc to the next gap after each.
+  private build(setup: Setup): void {
+    const byPos = new Map<number, number[]>();
+    setup.rf.systems.forEach((r, k) => {
+      const list = byPos.get(r.position) ?? [];
+      list.push(k);
+      byPos.set(r.position, list);
+    });
+    const pos = [...byPos.keys()].sort((a, b) => a - b);
+    const { drift: mode, momentumAperture } = setup.run;
+    this.gaps = pos.map((p, g) => {
+      const frac = g + 1 < pos.length ? pos[g + 1] - p : 1 - p + pos[0];
+      return { kick: rfKick(byPos.get(p)!), drift: drift(frac, mode, momentumAperture) };
+    });
+    if (pos.length > 1) {
+      const s = this.stepper.state;
+      this.ahead = new MachineStepper(setup);
+      this.ahead.resumeAt(s.turn, s.time, s.pc);
+      this.ahead.advance();
+    } else this.ahead = null;
+  }
+}
