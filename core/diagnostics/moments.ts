@@ -1,0 +1,82 @@
+// Per-turn reductions of the bunch. Units: dt in s, dE in eV, emittances in eV·s, lengths in s.
+// Emittance conventions (PHYSICS.md §9): emittanceRms = sqrt(<dt²><dE²> − <dt dE>²) about the centroid, without
+// a factor π; emittance90/95 are true areas (π included) of rms-shaped ellipses, see ellipse.ts.
+// Statistics are over the alive particles (population moments, divisor n).
+import type { Bunch } from '../bunch.ts';
+import type { MachineState } from '../machine.ts';
+import { fractionEmittances } from './ellipse.ts';
+import { insideSeparatrix, type BucketLimits } from './inside.ts';
+import { fwhm } from './profile.ts';
+
+export interface TurnDiagnostics {
+  turn: number;
+  /** Time since turn 0 [s]. */
+  time: number;
+  alive: number;
+  lost: number;
+  /** Centroid [s], [eV]. */
+  meanDt: number;
+  meanDE: number;
+  /** Rms about the centroid [s], [eV]. */
+  rmsDt: number;
+  rmsDE: number;
+  /** sqrt(<dt²><dE²> − <dt dE>²) [eV·s], no π. */
+  emittanceRms: number;
+  /** Area [eV·s] (π included) of the rms-shaped ellipse holding 90 % / 95 % of the alive particles. */
+  emittance90: number;
+  emittance95: number;
+  /** 4·rmsDt [s]. */
+  length4Sigma: number;
+  /** FWHM [s] of the binned line density (linear interpolation at half maximum). */
+  lengthFwhm: number;
+  /** Fraction of all particles (alive + lost) inside the separatrix; NaN if no bucket. */
+  insideFraction: number;
+}
+
+let profile = new Float64Array(0); // reused profile buffer
+
+/** All per-turn diagnostics; `bins` sets the line-density resolution of the FWHM; bucket null if none. */
+export function computeDiagnostics(b: Bunch, m: MachineState, bucket: BucketLimits | null, bins: number): TurnDiagnostics {
+  const n = b.n, dt = b.dt, dE = b.dE;
+  let st = 0, se = 0, tMin = Infinity, tMax = -Infinity;
+  for (let i = 0; i < n; i++) {
+    const t = dt[i];
+    st += t; se += dE[i];
+    if (t < tMin) tMin = t;
+    if (t > tMax) tMax = t;
+  }
+  const meanDt = st / n, meanDE = se / n;
+  let vt = 0, ve = 0, c = 0;
+  for (let i = 0; i < n; i++) {
+    const x = dt[i] - meanDt, y = dE[i] - meanDE;
+    vt += x * x; ve += y * y; c += x * y;
+  }
+  vt /= n; ve /= n; c /= n;
+  const [emittance90, emittance95] = fractionEmittances(b, { meanDt, meanDE, varDt: vt, varDE: ve, cov: c }, [0.9, 0.95]);
+  return {
+    turn: m.turn, time: m.time, alive: n, lost: b.total - n,
+    meanDt, meanDE, rmsDt: Math.sqrt(vt), rmsDE: Math.sqrt(ve),
+    emittanceRms: Math.sqrt(Math.max(0, vt * ve - c * c)),
+    emittance90, emittance95,
+    length4Sigma: 4 * Math.sqrt(vt),
+    lengthFwhm: profileFwhm(b, tMin, tMax, bins),
+    insideFraction: bucket === null ? NaN : insideSeparatrix(b, m, bucket) / b.total,
+  };
+}
+
+// FWHM of the line density on `bins` bins spanning the particles plus one empty bin on each side, so that
+// the half-maximum crossing can always be interpolated.
+function profileFwhm(b: Bunch, tMin: number, tMax: number, bins: number): number {
+  if (b.n === 0 || !(bins >= 3)) return NaN;
+  if (!(tMax > tMin)) return 0;
+  const w = (tMax - tMin) / (bins - 2);
+  if (profile.length !== bins) profile = new Float64Array(bins);
+  const p = profile;
+  p.fill(0);
+  const lo = tMin - w, inv = 1 / w, dt = b.dt, n = b.n;
+  for (let i = 0; i < n; i++) {
+    const ix = Math.min(bins - 2, Math.floor((dt[i] - lo) * inv)); // tMax lands in the last full bin
+    p[ix] += 1;
+  }
+  return fwhm(p, w);
+}
