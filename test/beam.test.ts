@@ -129,3 +129,83 @@ describe('linear-limit projections of the contour', () => {
     });
   }
 });
+
+describe('large bunches (half the bucket): contour against 4σt and 2σE', () => {
+  // Independent of the program's quadrature: the contour of amplitude φ̂ = 2·asin k in the stationary bucket has
+  // area A0·[E(k) − (1 − k²)K(k)] and half-height k·δ0 (PHYSICS.md §7, elliptic integrals with parameter k²),
+  // δ0 = sqrt(2ZV/(π·β²E·h·|η|)). Inside it, R(φ) = Hm − U = u0·(cos φ − cos φ̂) and, at fixed φ, |dE| < sqrt(R/aE).
+  const filling = 0.5;
+  const fill = (k: number) => ellipe(k * k) - (1 - k * k) * ellipk(k * k);
+  let lo = 0, hi = 1;
+  for (let i = 0; i < 60; i++) {
+    const mid = 0.5 * (lo + hi);
+    if (fill(mid) < filling) lo = mid;
+    else hi = mid;
+  }
+  const k = 0.5 * (lo + hi);
+  const phiHat = 2 * Math.asin(k);
+  const delta0 = Math.sqrt((2 * V) / (Math.PI * beta2E * m.h * Math.abs(m.eta0)));
+  const length = (2 * phiHat) / m.omegaRf;
+  const halfHeight = beta2E * k * delta0;
+  const R = (phi: number) => u0 * (Math.cos(phi) - Math.cos(phiHat));
+
+  it('flat: contour geometry from elliptic integrals; σt, σE by direct quadrature', () => {
+    // Flat: λ(φ) ∝ sqrt(R), ⟨dE²⟩ = ∫R^{3/2}/(3aE·∫R^{1/2}). Uniform midpoint rule, 2e5 nodes: the sqrt end
+    // points leave an error ~ (step)^{3/2} ≈ 1e-7 relative; tolerance 1e-5.
+    const n = 200_000;
+    let w0 = 0, w2 = 0, r3 = 0;
+    for (let j = 0; j < n; j++) {
+      const phi = -phiHat + ((j + 0.5) * 2 * phiHat) / n;
+      const r = R(phi);
+      w0 += Math.sqrt(r); w2 += phi * phi * Math.sqrt(r); r3 += r * Math.sqrt(r);
+    }
+    const sigmaT = Math.sqrt(w2 / w0) / m.omegaRf;
+    const sigmaE = Math.sqrt(r3 / (3 * aE * w0));
+    const info = matchBunch(m, bucket, 'flat', { by: 'emittance', convention: 'contour', value: filling * A0 });
+    expect(Math.abs(info.fillingFactor - filling)).toBeLessThan(1e-9);
+    expect(Math.abs(info.contourLength / length - 1)).toBeLessThan(1e-9);
+    expect(Math.abs(info.contourHalfHeight / halfHeight - 1)).toBeLessThan(1e-9);
+    expect(Math.abs(info.rmsLength / sigmaT - 1)).toBeLessThan(1e-5);
+    expect(Math.abs(info.rmsEnergySpread / sigmaE - 1)).toBeLessThan(1e-5);
+    // A uniform ellipse has L = 4σt and ΔE = 2σE exactly. In the pendulum well R = 2u0·sin((φ̂+φ)/2)·sin((φ̂−φ)/2)
+    // falls below its parabolic approximation more at the ends than at the centre, so the bunch is more
+    // peaked: the quadrature above gives L/(4σt) ≈ 1.019 and ΔE/(2σE) ≈ 1.017. Check the program on both sides.
+    const rL = length / (4 * sigmaT), rH = halfHeight / (2 * sigmaE);
+    console.log(`flat, 50 % filling: L/(4σt) = ${rL.toFixed(4)}, ΔE/(2σE) = ${rH.toFixed(4)}`);
+    expect(rL).toBeGreaterThan(1.01);
+    expect(rH).toBeGreaterThan(1.01);
+    expect(Math.abs(info.contourLength / (4 * info.rmsLength) - rL)).toBeLessThan(1e-4);
+    expect(Math.abs(info.contourHalfHeight / (2 * info.rmsEnergySpread) - rH)).toBeLessThan(1e-4);
+  });
+
+  it('parabolic: σt, σE in closed form', () => {
+    // Parabolic (μ = ½): λ(φ) ∝ R^{1/2}·R^{1/2} = R, ⟨dE²⟩ = ∫R²/(4aE·∫R) (shapes.ts integrals with μ = ½).
+    // With c = cos φ̂, a = φ̂: ∫R/u0 = 2 sin a − 2a c; ∫φ²R/u0 = 2(a² sin a + 2a cos a − 2 sin a) − (2a³/3)c;
+    // ∫R²/u0² = a + sin a·cos a − 4c·sin a + 2a c².
+    const a = phiHat, c = Math.cos(a), s = Math.sin(a);
+    const i0 = 2 * s - 2 * a * c;
+    const i2 = 2 * (a * a * s + 2 * a * c - 2 * s) - ((2 * a ** 3) / 3) * c;
+    const q = a + s * c - 4 * c * s + 2 * a * c * c;
+    const sigmaT = Math.sqrt(i2 / i0) / m.omegaRf;
+    const sigmaE = Math.sqrt((u0 * q) / (4 * aE * i0));
+    const info = matchBunch(m, bucket, 'parabolic', { by: 'emittance', convention: 'contour', value: filling * A0 });
+    expect(Math.abs(info.contourLength / length - 1)).toBeLessThan(1e-9);
+    expect(Math.abs(info.rmsLength / sigmaT - 1)).toBeLessThan(1e-9);
+    expect(Math.abs(info.rmsEnergySpread / sigmaE - 1)).toBeLessThan(1e-9);
+    // Linear limit: L/(4σt) = ΔE/(2σE) = √5/2 ≈ 1.118; at half filling the closed forms give ≈ 1.157 and
+    // ≈ 1.131 (the same peaking as for the flat bunch).
+    const rL = length / (4 * sigmaT), rH = halfHeight / (2 * sigmaE);
+    console.log(`parabolic, 50 % filling: L/(4σt) = ${rL.toFixed(4)}, ΔE/(2σE) = ${rH.toFixed(4)} (linear ${(Math.sqrt(5) / 2).toFixed(4)})`);
+    expect(rL).toBeGreaterThan(Math.sqrt(5) / 2 + 0.02);
+    expect(rH).toBeGreaterThan(Math.sqrt(5) / 2 + 0.005);
+    expect(Math.abs(info.contourLength / (4 * info.rmsLength) - rL)).toBeLessThan(1e-4);
+    expect(Math.abs(info.contourHalfHeight / (2 * info.rmsEnergySpread) - rH)).toBeLessThan(1e-4);
+  });
+
+  it('rejects a bunch larger than the bucket, naming the field and the bucket area', () => {
+    expect(() => matchBunch(m, bucket, 'flat', { by: 'emittance', convention: 'contour', value: 1.1 * A0 })).toThrow(
+      /beam\.distribution\.size\.value = .* eV·s: the contour emittance exceeds .* bucket \(area/,
+    );
+    expect(() => matchBunch(m, bucket, 'gaussian', { by: 'rmsLength', value: 1 / m.omegaRf })).toThrow(/rms length exceeds/);
+  });
+});
