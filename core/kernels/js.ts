@@ -1,0 +1,168 @@
+// Plain TypeScript turn kernels: the reference and the fallback of the WebAssembly kernels.
+// Units: dt in s (dt > 0 = late), dE in eV (PHYSICS.md §4). Per particle, in this order (the wasm kernels do
+// the same IEEE operations in the same order, so with sine = 'poly' both give identical bits):
+//   kick:   acc = A_0·sin(φ_0 + w_0·dt); acc = acc + A_k·sin(φ_k + w_k·dt) …;  dE = dE + (acc − dEsync)
+//   linear: dt = dt + slip·dE
+//   exact:  ε = dE/E_s, w = ε(2+ε), u = w/β², δ = u/(1+√(1+u)), path = δ(α0 + δ(α1 + δα2)),
+//           dt = dt + period·((1+ε)·path − w/(β²γ²)/(2+ε+δ))/(1+δ)          (PHYSICS.md §3)
+//   loss:   count the particles with !(|dt| ≤ dtMax and dEmin ≤ dE ≤ dEmax) after the pass.
+// Hot loops take every parameter as an argument (PERF.md: module-scope reads in the loop halve the speed).
+import { sinPoly } from './sine.ts';
+import { checkColumns, checkKick, type Columns, type DriftParams, type KickParams, type Limits, type TurnKernel } from './types.ts';
+
+type Sine = (x: number) => number;
+
+/** Scalars of the exact drift derived once per call. */
+export function exactConstants(d: DriftParams): { invEs: number; invB2: number; invB2G2: number } {
+  const invB2 = 1 / d.beta2;
+  return { invEs: 1 / d.Es, invB2, invB2G2: invB2 / d.gamma2 };
+}
+
+/** The JavaScript kernel; sine = 'poly' (default, same bits as wasm) or 'native' (Math.sin). */
+export function createJsKernel(options: { sine?: 'poly' | 'native' } = {}): TurnKernel {
+  const sin: Sine = options.sine === 'native' ? Math.sin : sinPoly;
+  const scratch = { dt: new Float64Array(1), dE: new Float64Array(1) };
+  const kernel: TurnKernel = {
+    impl: 'js',
+    allocColumns: (n) => ({ dt: new Float64Array(n), dE: new Float64Array(n) }),
+    freeColumns: () => {},
+    kickDrift(cols, n, kick, drift, limits) {
+      checkColumns(cols, n);
+      checkKick(kick);
+      const c = kick.count, A = kick.amplitude, w = kick.omega, p = kick.phase;
+      const lo = limits.dEmin ?? -limits.dEmax;
+      if (drift.kind === 'linear') {
+        if (c === 1) return kd1Linear(cols.dt, cols.dE, n, sin, A[0], w[0], p[0], kick.dEsync, drift.slip, limits.dtMax, lo, limits.dEmax);
+        if (c === 2) return kd2Linear(cols.dt, cols.dE, n, sin, A[0], w[0], p[0], A[1], w[1], p[1], kick.dEsync, drift.slip, limits.dtMax, lo, limits.dEmax);
+        kick4(cols.dt, cols.dE, n, sin, kick);
+        return driftLinear(cols.dt, cols.dE, n, drift.slip, limits.dtMax, lo, limits.dEmax);
+      }
+      const x = exactConstants(drift);
+      if (c === 1) return kd1Exact(cols.dt, cols.dE, n, sin, A[0], w[0], p[0], kick.dEsync, drift.period, x.invEs, x.invB2, x.invB2G2, drift.alpha0, drift.alpha1, drift.alpha2, limits.dtMax, lo, limits.dEmax);
+      if (c === 2) kick2(cols.dt, cols.dE, n, sin, A[0], w[0], p[0], A[1], w[1], p[1], kick.dEsync);
+      else kick4(cols.dt, cols.dE, n, sin, kick);
+      return driftExact(cols.dt, cols.dE, n, drift.period, x.invEs, x.invB2, x.invB2G2, drift.alpha0, drift.alpha1, drift.alpha2, limits.dtMax, lo, limits.dEmax);
+    },
+    kick(cols, n, kick) {
+      checkColumns(cols, n);
+      checkKick(kick);
+      const A = kick.amplitude, w = kick.omega, p = kick.phase;
+      if (kick.count === 1) kick1(cols.dt, cols.dE, n, sin, A[0], w[0], p[0], kick.dEsync);
+      else if (kick.count === 2) kick2(cols.dt, cols.dE, n, sin, A[0], w[0], p[0], A[1], w[1], p[1], kick.dEsync);
+      else kick4(cols.dt, cols.dE, n, sin, kick);
+    },
+    drift(cols, n, drift, limits) {
+      checkColumns(cols, n);
+      const lo = limits.dEmin ?? -limits.dEmax;
+      if (drift.kind === 'linear') return driftLinear(cols.dt, cols.dE, n, drift.slip, limits.dtMax, lo, limits.dEmax);
+      const x = exactConstants(drift);
+      return driftExact(cols.dt, cols.dE, n, drift.period, x.invEs, x.invB2, x.invB2G2, drift.alpha0, drift.alpha1, drift.alpha2, limits.dtMax, lo, limits.dEmax);
+    },
+    syncGain(kick) {
+      // The kick of a particle at dt = 0 with dEsync = 0 is exactly the accumulated Σ A_k·sin φ_k.
+      scratch.dt[0] = 0;
+      scratch.dE[0] = 0;
+      const saved = kick.dEsync;
+      kick.dEsync = 0;
+      kernel.kick(scratch, 1, kick);
+      kick.dEsync = saved;
+      return scratch.dE[0];
+    },
+  };
+  return kernel;
+}
+
+function kick1(dt: Float64Array, dE: Float64Array, n: number, sin: Sine, a0: number, w0: number, p0: number, sync: number): void {
+  for (let i = 0; i < n; i++) dE[i] = dE[i] + (a0 * sin(p0 + w0 * dt[i]) - sync);
+}
+
+function kick2(dt: Float64Array, dE: Float64Array, n: number, sin: Sine, a0: number, w0: number, p0: number, a1: number, w1: number, p1: number, sync: number): void {
+  for (let i = 0; i < n; i++) {
+    const t = dt[i];
+    dE[i] = dE[i] + (a0 * sin(p0 + w0 * t) + a1 * sin(p1 + w1 * t) - sync);
+  }
+}
+
+// Three or four systems; unused entries (k ≥ count) act as A = w = φ = 0, which adds exactly +0.
+function kick4(dt: Float64Array, dE: Float64Array, n: number, sin: Sine, kick: KickParams): void {
+  const c = kick.count, A = kick.amplitude, w = kick.omega, p = kick.phase;
+  const a0 = A[0], a1 = A[1], a2 = A[2], a3 = c > 3 ? A[3] : 0;
+  const w0 = w[0], w1 = w[1], w2 = w[2], w3 = c > 3 ? w[3] : 0;
+  const p0 = p[0], p1 = p[1], p2 = p[2], p3 = c > 3 ? p[3] : 0;
+  const sync = kick.dEsync;
+  for (let i = 0; i < n; i++) {
+    const t = dt[i];
+    dE[i] = dE[i] + (a0 * sin(p0 + w0 * t) + a1 * sin(p1 + w1 * t) + a2 * sin(p2 + w2 * t) + a3 * sin(p3 + w3 * t) - sync);
+  }
+}
+
+function driftLinear(dt: Float64Array, dE: Float64Array, n: number, slip: number, dtMax: number, lo: number, hi: number): number {
+  let out = 0;
+  for (let i = 0; i < n; i++) {
+    const e = dE[i];
+    const t = dt[i] + slip * e;
+    dt[i] = t;
+    if (!(Math.abs(t) <= dtMax && e <= hi && e >= lo)) out++;
+  }
+  return out;
+}
+
+function driftExact(dt: Float64Array, dE: Float64Array, n: number, period: number, invEs: number, invB2: number, invB2G2: number, a0: number, a1: number, a2: number, dtMax: number, lo: number, hi: number): number {
+  let out = 0;
+  for (let i = 0; i < n; i++) {
+    const e = dE[i];
+    const eps = e * invEs;
+    const w = eps * (2 + eps);
+    const u = w * invB2;
+    const delta = u / (1 + Math.sqrt(1 + u));
+    const path = delta * (a0 + delta * (a1 + delta * a2));
+    const t = dt[i] + period * (((1 + eps) * path - (w * invB2G2) / (2 + eps + delta)) / (1 + delta));
+    dt[i] = t;
+    if (!(Math.abs(t) <= dtMax && e <= hi && e >= lo)) out++;
+  }
+  return out;
+}
+
+function kd1Linear(dt: Float64Array, dE: Float64Array, n: number, sin: Sine, a0: number, w0: number, p0: number, sync: number, slip: number, dtMax: number, lo: number, hi: number): number {
+  let out = 0;
+  for (let i = 0; i < n; i++) {
+    let t = dt[i];
+    const e = dE[i] + (a0 * sin(p0 + w0 * t) - sync);
+    t = t + slip * e;
+    dE[i] = e;
+    dt[i] = t;
+    if (!(Math.abs(t) <= dtMax && e <= hi && e >= lo)) out++;
+  }
+  return out;
+}
+
+function kd2Linear(dt: Float64Array, dE: Float64Array, n: number, sin: Sine, a0: number, w0: number, p0: number, a1: number, w1: number, p1: number, sync: number, slip: number, dtMax: number, lo: number, hi: number): number {
+  let out = 0;
+  for (let i = 0; i < n; i++) {
+    let t = dt[i];
+    const e = dE[i] + (a0 * sin(p0 + w0 * t) + a1 * sin(p1 + w1 * t) - sync);
+    t = t + slip * e;
+    dE[i] = e;
+    dt[i] = t;
+    if (!(Math.abs(t) <= dtMax && e <= hi && e >= lo)) out++;
+  }
+  return out;
+}
+
+function kd1Exact(dt: Float64Array, dE: Float64Array, n: number, sin: Sine, a0: number, w0: number, p0: number, sync: number, period: number, invEs: number, invB2: number, invB2G2: number, al0: number, al1: number, al2: number, dtMax: number, lo: number, hi: number): number {
+  let out = 0;
+  for (let i = 0; i < n; i++) {
+    let t = dt[i];
+    const e = dE[i] + (a0 * sin(p0 + w0 * t) - sync);
+    const eps = e * invEs;
+    const w = eps * (2 + eps);
+    const u = w * invB2;
+    const delta = u / (1 + Math.sqrt(1 + u));
+    const path = delta * (al0 + delta * (al1 + delta * al2));
+    t = t + period * (((1 + eps) * path - (w * invB2G2) / (2 + eps + delta)) / (1 + delta));
+    dE[i] = e;
+    dt[i] = t;
+    if (!(Math.abs(t) <= dtMax && e <= hi && e >= lo)) out++;
+  }
+  return out;
+}
