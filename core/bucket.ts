@@ -7,6 +7,7 @@
 // sub-buckets, each bounded by its nearest maxima.
 import { wrapPhase, isStable, stableSlope } from './synchronous.ts';
 import type { MachineState } from './machine.ts';
+import { potential } from './rf.ts';
 import { tanhSinh } from './bucket/quadrature.ts';
 import { levelCrossing, refineStable, scanExtrema, wellDrop, wellOf, wellU, type Extremum, type Well } from './bucket/well.ts';
 
@@ -84,7 +85,9 @@ export function computeBucket(m: MachineState): BucketResult {
 
 /** H'(φ, δ) per turn. */
 export function hamiltonian(m: MachineState, phi: number, delta: number): number {
-  return Math.PI * m.h * Math.abs(m.eta0) * delta * delta + wellU(wellOf(m), phi);
+  // U has its origin at m.phiS (U(m.phiS) = 0), the same reference as BucketInfo.Usep.
+  const u = potential(m.wave, m.phiS, phi, m.eta0, m.beta * m.beta * m.Es);
+  return Math.PI * m.h * Math.abs(m.eta0) * delta * delta + u;
 }
 
 /** Main-harmonic phase of a time offset, and back. */
