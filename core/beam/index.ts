@@ -3,4 +3,5 @@ export { matchBunch, matchedNumbers, sampleMatched, maxScale, GAUSSIAN_CONTOUR_L
 export { BINOMIAL_EXPONENT, type MatchedShape } from './shapes.ts';
 export { linearOmegaS, linearlyMatchedSpread, sampleUnmatched } from './unmatched.ts';
 export { sampleCoasting } from './coasting.ts';
+export { generateBeam } from './generate.ts';
 export type { BucketBounds } from './well.ts';
