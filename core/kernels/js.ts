@@ -8,7 +8,7 @@
 //   loss:   count the particles with !(|dt| ≤ dtMax and dEmin ≤ dE ≤ dEmax) after the pass.
 // Hot loops take every parameter as an argument (PERF.md: module-scope reads in the loop halve the speed).
 import { sinPoly } from './sine.ts';
-import { checkColumns, checkKick, type Columns, type DriftParams, type KickParams, type Limits, type TurnKernel } from './types.ts';
+import { checkColumns, checkKick, type DriftParams, type KickParams, type TurnKernel } from './types.ts';
 
 type Sine = (x: number) => number;
 

@@ -1,0 +1,203 @@
+// Generator of the WebAssembly SIMD (f64x2) turn kernels: this TypeScript is the source of truth, and the binary
+// is assembled from it at load time (a few kB in well under a millisecond), so nothing binary is committed.
+// Units as in core/kernels/js.ts; the per-particle operations and their order are exactly those of js.ts with the
+// polynomial sine of sine.ts, two particles per instruction, so the two agree bit for bit.
+//
+// Module layout: imports env.memory; every exported function has the type (dtPtr, dEPtr, n: i32) → i32 and reads
+// its parameters from the block at byte PARAMS (see PARAM below), splatted into v128 locals before the loop.
+//   kick_<k>            k = 1..4 RF systems, returns 0
+//   drift_linear/exact  returns the number of particles outside the limits
+//   kd_linear_<k>, kd_exact_<k>   fused kick + drift, returns the number outside the limits
+// Pairs [2j, 2j+1] run through v128 loads/stores; an odd last particle goes through the same code with
+// v128.load64_zero / v128.store64_lane, so the particle at index n (a lost one) is never touched.
+import { INV_PI, PI_HI, PI_LO, SIN_COEFFS } from './sine.ts';
+
+/** Byte offsets (from 0) of the parameter block, all f64. A, W, PHI hold MAX_RF = 4 entries each. */
+export const PARAM = {
+  A: 0, W: 32, PHI: 64, SYNC: 96, SLIP: 104, PERIOD: 112, INV_ES: 120, INV_B2: 128, INV_B2G2: 136,
+  AL0: 144, AL1: 152, AL2: 160, DT_MAX: 168, DE_MIN: 176, DE_MAX: 184,
+} as const;
+/** Two scratch particles (dt at SCRATCH, dE at SCRATCH + 16) used by syncGain. */
+export const SCRATCH = 192;
+/** First byte available to particle columns. */
+export const HEAP_BASE = 256;
+
+export type DriftKind = 'none' | 'linear' | 'exact';
+
+/** Exported function name for a kick of `rf` systems (0 = none) followed by a drift of `drift` kind. */
+export function kernelName(rf: number, drift: DriftKind): string {
+  if (drift === 'none') return `kick_${rf}`;
+  return rf === 0 ? `drift_${drift}` : `kd_${drift}_${rf}`;
+}
+
+type Code = number[];
+
+function uleb(v: number): Code {
+  const out: Code = [];
+  do {
+    let b = v & 0x7f;
+    v >>>= 7;
+    if (v !== 0) b |= 0x80;
+    out.push(b);
+  } while (v !== 0);
+  return out;
+}
+
+function sleb(v: number): Code {
+  const out: Code = [];
+  for (;;) {
+    const b = v & 0x7f;
+    v >>= 7;
+    if ((v === 0 && (b & 0x40) === 0) || (v === -1 && (b & 0x40) !== 0)) return [...out, b];
+    out.push(b | 0x80);
+  }
+}
+
+function f64Bytes(x: number): Code {
+  return [...new Uint8Array(new Float64Array([x]).buffer)];
+}
+
+const str = (s: string): Code => [...uleb(s.length), ...[...s].map((ch) => ch.charCodeAt(0))];
+const vec = (items: Code[]): Code => [...uleb(items.length), ...items.flat()];
+const section = (id: number, body: Code): Code => [id, ...uleb(body.length), ...body];
+
+// --- instructions (names as in the WebAssembly text format) ---
+const I32 = 0x7f, V128 = 0x7b;
+const simd = (op: number): Code => [0xfd, ...uleb(op)];
+const get = (l: number): Code => [0x20, ...uleb(l)];
+const set = (l: number, v: Code): Code => [...v, 0x21, ...uleb(l)];
+const i32c = (v: number): Code => [0x41, ...sleb(v)];
+const bin = (op: Code) => (a: Code, b: Code): Code => [...a, ...b, ...op];
+const un = (op: Code) => (a: Code): Code => [...a, ...op];
+const f64x2 = {
+  splat: un(simd(0x14)), abs: un(simd(0xec)), sqrt: un(simd(0xef)), nearest: un(simd(0x94)),
+  add: bin(simd(0xf0)), sub: bin(simd(0xf1)), mul: bin(simd(0xf2)), div: bin(simd(0xf3)),
+  le: bin(simd(0x4b)), ge: bin(simd(0x4c)),
+};
+const v128and = bin(simd(0x4e));
+const i64x2sub = bin(simd(0xd1));
+const i64x2lane = (a: Code, lane: number): Code => [...a, ...simd(0x1d), lane];
+const i32 = { add: bin([0x6a]), sub: bin([0x6b]), and: bin([0x71]), shl: bin([0x74]), ltu: bin([0x49]), wrapI64: un([0xa7]) };
+const v128load = (addr: Code): Code => [...addr, ...simd(0x00), 4, 0];
+const v128store = (addr: Code, v: Code): Code => [...addr, ...v, ...simd(0x0b), 4, 0];
+const load64zero = (addr: Code): Code => [...addr, ...simd(0x5d), 3, 0];
+const store64lane0 = (addr: Code, v: Code): Code => [...addr, ...v, ...simd(0x5b), 3, 0, 0];
+const splatParam = (offset: number): Code => f64x2.splat([...i32c(0), 0x2b, 3, ...uleb(offset)]); // f64.load
+const splatConst = (x: number): Code => f64x2.splat([0x44, ...f64Bytes(x)]);
+
+// One kernel function. Locals: params 0..2, then i32 locals, then v128 locals (declared in that order).
+function kernelBody(rf: number, drift: DriftKind): Code {
+  const DT = 0, DE = 1, N = 2;
+  let next = 3;
+  const PT = next++, PE = next++, PEND = next++, TAIL = next++; // i32
+  const nI32 = next - 3;
+  const firstV = next;
+  const v = () => next++;
+  const T = v(), E = v(), X = v(), K = v(), H = v(), R = v(), R2 = v(), ACC = v(), MASK = v(), CNT = v();
+  const ONE = v(), TWO = v(), HALF = v(), INVPI = v(), PIHI = v(), PILO = v();
+  const C = SIN_COEFFS.map(() => v());
+  const A = Array.from({ length: rf }, v), W = Array.from({ length: rf }, v), P = Array.from({ length: rf }, v);
+  const SYNC = v(), SLIP = v(), PERIOD = v(), INVES = v(), INVB2 = v(), INVB2G2 = v(), AL0 = v(), AL1 = v(), AL2 = v();
+  const DTMAX = v(), DEMIN = v(), DEMAX = v(), EPS = v(), WW = v(), DELTA = v();
+  const nV128 = next - firstV;
+  const { add, sub, mul, div } = f64x2;
+  const g = get;
+
+  const setup: Code[] = [
+    set(ONE, splatConst(1)), set(TWO, splatConst(2)), set(HALF, splatConst(0.5)),
+    set(INVPI, splatConst(INV_PI)), set(PIHI, splatConst(PI_HI)), set(PILO, splatConst(PI_LO)),
+    ...SIN_COEFFS.map((c, j) => set(C[j], splatConst(c))),
+  ];
+  for (let k = 0; k < rf; k++)
+    setup.push(set(A[k], splatParam(PARAM.A + 8 * k)), set(W[k], splatParam(PARAM.W + 8 * k)), set(P[k], splatParam(PARAM.PHI + 8 * k)));
+  if (rf > 0) setup.push(set(SYNC, splatParam(PARAM.SYNC)));
+  if (drift === 'linear') setup.push(set(SLIP, splatParam(PARAM.SLIP)));
+  if (drift === 'exact')
+    for (const [l, o] of [[PERIOD, PARAM.PERIOD], [INVES, PARAM.INV_ES], [INVB2, PARAM.INV_B2], [INVB2G2, PARAM.INV_B2G2], [AL0, PARAM.AL0], [AL1, PARAM.AL1], [AL2, PARAM.AL2]])
+      setup.push(set(l, splatParam(o)));
+  if (drift !== 'none') setup.push(set(DTMAX, splatParam(PARAM.DT_MAX)), set(DEMIN, splatParam(PARAM.DE_MIN)), set(DEMAX, splatParam(PARAM.DE_MAX)));
+
+  // The map for the two particles in T, E (as sinPoly and js.ts, operation for operation).
+  const body: Code[] = [];
+  for (let k = 0; k < rf; k++) {
+    body.push(
+      set(X, add(g(P[k]), mul(g(W[k]), g(T)))), // x = φ_k + w_k·dt
+      set(K, f64x2.nearest(mul(g(X), g(INVPI)))), // k = nearest(x/π)
+      set(R, sub(sub(g(X), mul(g(K), g(PIHI))), mul(g(K), g(PILO)))), // r = x − k·P1 − k·P2
+      set(H, f64x2.nearest(mul(g(K), g(HALF)))),
+      set(R, mul(g(R), sub(g(ONE), mul(g(TWO), f64x2.abs(sub(g(K), add(g(H), g(H)))))))), // r·(−1)^k
+      set(R2, mul(g(R), g(R))),
+    );
+    let poly = g(C[C.length - 1]);
+    for (let j = C.length - 2; j >= 0; j--) poly = add(g(C[j]), mul(g(R2), poly));
+    const term = mul(g(A[k]), mul(g(R), poly));
+    body.push(set(ACC, k === 0 ? term : add(g(ACC), term)));
+  }
+  if (rf > 0) body.push(set(E, add(g(E), sub(g(ACC), g(SYNC)))));
+  if (drift === 'linear') body.push(set(T, add(g(T), mul(g(SLIP), g(E)))));
+  if (drift === 'exact') {
+    body.push(
+      set(EPS, mul(g(E), g(INVES))),
+      set(WW, mul(g(EPS), add(g(TWO), g(EPS)))),
+      set(X, mul(g(WW), g(INVB2))), // u
+      set(DELTA, div(g(X), add(g(ONE), f64x2.sqrt(add(g(ONE), g(X)))))),
+      set(X, mul(g(DELTA), add(g(AL0), mul(g(DELTA), add(g(AL1), mul(g(DELTA), g(AL2))))))), // path
+      set(X, div(sub(mul(add(g(ONE), g(EPS)), g(X)), div(mul(g(WW), g(INVB2G2)), add(add(g(TWO), g(EPS)), g(DELTA)))), add(g(ONE), g(DELTA)))),
+      set(T, add(g(T), mul(g(PERIOD), g(X)))),
+    );
+  }
+  if (drift !== 'none') body.push(set(MASK, v128and(v128and(f64x2.le(f64x2.abs(g(T)), g(DTMAX)), f64x2.le(g(E), g(DEMAX))), f64x2.ge(g(E), g(DEMIN)))));
+
+  const counting = drift !== 'none';
+  const code: Code[] = [
+    ...setup,
+    set(PT, g(DT)), set(PE, g(DE)),
+    set(PEND, i32.add(g(DT), i32.shl(i32.and(g(N), i32c(-2)), i32c(3)))), // dt + 8·(n & ~1)
+    // while (pt < pend): one pair
+    [0x02, 0x40, ...i32.ltu(g(PT), g(PEND)), 0x45, 0x0d, 0, 0x03, 0x40], // block; br_if 0 (!(pt<pend)); loop
+    set(T, v128load(g(PT))), set(E, v128load(g(PE))),
+    ...body,
+    v128store(g(PT), g(T)), v128store(g(PE), g(E)),
+    counting ? set(CNT, i64x2sub(g(CNT), g(MASK))) : [],
+    set(PT, i32.add(g(PT), i32c(16))), set(PE, i32.add(g(PE), i32c(16))),
+    [...i32.ltu(g(PT), g(PEND)), 0x0d, 0, 0x0b, 0x0b], // br_if 0 (loop); end loop; end block
+    // odd last particle: lane 0 only
+    [...i32.and(g(N), i32c(1)), 0x04, 0x40],
+    set(T, load64zero(g(PT))), set(E, load64zero(g(PE))),
+    ...body,
+    store64lane0(g(PT), g(T)), store64lane0(g(PE), g(E)),
+    counting ? set(TAIL, i32.wrapI64(i64x2lane(g(MASK), 0))) : [], // −1 inside, 0 outside
+    [0x0b],
+    // return n − inside
+    counting
+      ? i32.add(i32.sub(g(N), i32.add(i32.wrapI64(i64x2lane(g(CNT), 0)), i32.wrapI64(i64x2lane(g(CNT), 1)))), g(TAIL))
+      : i32c(0),
+    [0x0b],
+  ];
+  const locals = vec([[...uleb(nI32), I32], [...uleb(nV128), V128]]);
+  const fn = [...locals, ...code.flat()];
+  return [...uleb(fn.length), ...fn];
+}
+
+/** All kernels as [name, rf, drift]. */
+export function kernelList(): [string, number, DriftKind][] {
+  const list: [string, number, DriftKind][] = [];
+  for (let rf = 1; rf <= 4; rf++) list.push([kernelName(rf, 'none'), rf, 'none']);
+  for (const d of ['linear', 'exact'] as const) {
+    list.push([kernelName(0, d), 0, d]);
+    for (let rf = 1; rf <= 4; rf++) list.push([kernelName(rf, d), rf, d]);
+  }
+  return list;
+}
+
+/** The module bytes. shared = true imports a shared memory (maximum `maxPages`), for worker threads. */
+export function buildKernelModule(options: { shared?: boolean; maxPages?: number } = {}): Uint8Array {
+  const list = kernelList();
+  const type = section(1, vec([[0x60, ...vec([[I32], [I32], [I32]]), ...vec([[I32]])]]));
+  const limits = options.shared ? [0x03, ...uleb(1), ...uleb(options.maxPages ?? 65536)] : [0x00, ...uleb(1)];
+  const imports = section(2, vec([[...str('env'), ...str('memory'), 0x02, ...limits]]));
+  const funcs = section(3, vec(list.map(() => [0])));
+  const exports = section(7, vec(list.map(([name], i) => [...str(name), 0x00, ...uleb(i)])));
+  const code = section(10, vec(list.map(([, rf, d]) => kernelBody(rf, d))));
+  return new Uint8Array([0x00, 0x61, 0x73, 0x6d, 0x01, 0x00, 0x00, 0x00, ...type, ...imports, ...funcs, ...exports, ...code]);
+}
