@@ -1,9 +1,11 @@
 // Diagnostics against analytic values of a large seeded Gaussian sample and exactly known inputs.
 // Units: dt in s, dE in eV, emittances in eV·s.
 import { describe, expect, it } from 'vitest';
+import { computeBucket } from '../core/bucket.ts';
 import { loseParticle, makeBunch, type Bunch } from '../core/bunch.ts';
 import {
-  centroidSpectrum, computeDiagnostics, DiagnosticsLog, fwhm, histogram2d, lineDensity, selectKth, type TurnDiagnostics,
+  centroidSpectrum, computeDiagnostics, DiagnosticsLog, fwhm, histogram2d, insideSeparatrix, lineDensity, selectKth,
+  type TurnDiagnostics,
 } from '../core/diagnostics/index.ts';
 import { machineAtStart } from '../core/machine.ts';
 import { makeRng } from '../core/rng.ts';
@@ -93,8 +95,12 @@ describe('insideFraction', () => {
     set(4, 2.0, 0.6 * delta0); // separatrix at φ = 2: δ = δ0·cos(1) = 0.54 δ0, so outside
     set(5, 0.1, 0);
     loseParticle(c, 5); // lost particles count as outside
-    const d = computeDiagnostics(c, m, bucket, 16);
-    expect(d.insideFraction).toBeCloseTo(2 / 6, 15);
+    expect(insideSeparatrix(c, m, bucket)).toBe(2);
+    // The same through computeDiagnostics with the bucket of core/bucket.ts, whose Usep must match §7.
+    const br = computeBucket(m);
+    if (!br.ok) throw new Error(br.reason);
+    expect(Math.abs(br.bucket.Usep / bucket.Usep - 1)).toBeLessThan(1e-9);
+    expect(computeDiagnostics(c, m, br.bucket, 16).insideFraction).toBeCloseTo(2 / 6, 15);
   });
 });
 

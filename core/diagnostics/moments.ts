@@ -2,10 +2,11 @@
 // Emittance conventions (PHYSICS.md §9): emittanceRms = sqrt(<dt²><dE²> − <dt dE>²) about the centroid, without
 // a factor π; emittance90/95 are true areas (π included) of rms-shaped ellipses, see ellipse.ts.
 // Statistics are over the alive particles (population moments, divisor n).
+import type { BucketInfo } from '../bucket.ts';
 import type { Bunch } from '../bunch.ts';
 import type { MachineState } from '../machine.ts';
 import { fractionEmittances } from './ellipse.ts';
-import { insideSeparatrix, type BucketLimits } from './inside.ts';
+import { insideSeparatrix } from './inside.ts';
 import { fwhm } from './profile.ts';
 
 export interface TurnDiagnostics {
@@ -36,7 +37,7 @@ export interface TurnDiagnostics {
 let profile = new Float64Array(0); // reused profile buffer
 
 /** All per-turn diagnostics; `bins` sets the line-density resolution of the FWHM; bucket null if none. */
-export function computeDiagnostics(b: Bunch, m: MachineState, bucket: BucketLimits | null, bins: number): TurnDiagnostics {
+export function computeDiagnostics(b: Bunch, m: MachineState, bucket: BucketInfo | null, bins: number): TurnDiagnostics {
   const n = b.n, dt = b.dt, dE = b.dE;
   let st = 0, se = 0, tMin = Infinity, tMax = -Infinity;
   for (let i = 0; i < n; i++) {
