@@ -1,0 +1,111 @@
+// Editor inputs bound to a path of the draft setup. A number shows in its display unit and is stored in the
+// schema unit; text that is not a number is stored as typed, so validation names the exact value given.
+import { useEffect, useRef, useState, type ReactNode } from 'react';
+import { formatIssue } from '../../core/setup/validate.ts';
+import { editField, useApp } from '../store.ts';
+import { getIn, pathKey, type PathSeg } from '../paths.ts';
+
+/** DOM id of the input for a path (tests and labels use it). */
+export function fieldId(path: readonly PathSeg[]): string {
+  return 'f-' + path.join('-');
+}
+
+function show(v: unknown, toDisplay: number): string {
+  if (typeof v === 'number') return String(Number((v * toDisplay).toPrecision(10)));
+  return v === undefined ? '' : String(v);
+}
+
+/** Issues of the draft at exactly this path, as one line each. */
+export function useIssues(path: readonly PathSeg[]): string[] {
+  const key = pathKey(path);
+  const issues = useApp((s) => s.issues);
+  return issues.filter((i) => i.path === key).map(formatIssue);
+}
+
+function Row(props: { id: string; label: string; unit?: string; errors: string[]; children: ReactNode; hint?: string }) {
+  return (
+    <div className={'field' + (props.errors.length ? ' invalid' : '')} title={props.hint}>
+      <label htmlFor={props.id}>{props.label}</label>
+      <div className="field-input">
+        {props.children}
+        {props.unit ? <span className="unit">{props.unit}</span> : null}
+      </div>
+      {props.errors.map((e) => (
+        <div key={e} className="field-error" role="alert" id={props.id + '-error'}>
+          {e}
+        </div>
+      ))}
+    </div>
+  );
+}
+
+/** A number field; `toDisplay` converts the stored value to the shown one (e.g. 1e9 for s → ns). */
+export function NumberField(props: { path: PathSeg[]; label: string; unit?: string; toDisplay?: number; hint?: string; optional?: boolean }) {
+  const k = props.toDisplay ?? 1;
+  const id = fieldId(props.path);
+  const value = useApp((s) => getIn(s.draft, props.path));
+  const errors = useIssues(props.path);
+  const [text, setText] = useState(() => show(value, k));
+  const ref = useRef<HTMLInputElement>(null);
+  // Follow outside changes (preset, file, link) unless the user is typing here.
+  useEffect(() => {
+    if (document.activeElement !== ref.current) setText(show(value, k));
+  }, [value, k]);
+  const onChange = (t: string) => {
+    setText(t);
+    const x = t.trim() === '' ? NaN : Number(t);
+    if (props.optional && t.trim() === '') editField(props.path, undefined); // empty removes an optional field
+    else editField(props.path, Number.isFinite(x) ? Number((x / k).toPrecision(15)) : t);
+  };
+  return (
+    <Row id={id} label={props.label} unit={props.unit} errors={errors} hint={props.hint}>
+      <input
+        id={id}
+        ref={ref}
+        type="text"
+        inputMode="decimal"
+        spellCheck={false}
+        aria-invalid={errors.length > 0}
+        value={text}
+        onChange={(e) => onChange(e.target.value)}
+        onBlur={() => setText(show(value, k))}
+      />
+    </Row>
+  );
+}
+
+/** A choice among fixed strings; `onPick` may rebuild the enclosing object (e.g. a union's kind). */
+export function SelectField(props: {
+  path: PathSeg[];
+  label: string;
+  options: [string, string][];
+  onPick?: (v: string) => void;
+  hint?: string;
+}) {
+  const id = fieldId(props.path);
+  const value = useApp((s) => getIn(s.draft, props.path));
+  const errors = useIssues(props.path);
+  return (
+    <Row id={id} label={props.label} errors={errors} hint={props.hint}>
+      <select id={id} value={String(value ?? '')} onChange={(e) => (props.onPick ? props.onPick(e.target.value) : editField(props.path, e.target.value))}>
+        {props.options.map(([v, l]) => (
+          <option key={v} value={v}>
+            {l}
+          </option>
+        ))}
+      </select>
+    </Row>
+  );
+}
+
+/** Errors attached to a whole block (e.g. "rf.systems"), shown under its heading. */
+export function BlockIssues(props: { path: PathSeg[] }) {
+  const errors = useIssues(props.path);
+  return errors.length ? (
+    <div className="block-error" role="alert">
+      {errors.map((e) => (
+        <div key={e}>{e}</div>
+      ))}
+    </div>
+  ) : null;
+}

@@ -1,0 +1,137 @@
+// Drives the tracking worker from the store: (re)generates the beam when the beam block changes, forwards
+// other setup changes (applied at the next turn, beam kept), and while running asks for one short call per
+// animation frame. Only this module talks to the worker.
+import * as Comlink from 'comlink';
+import type { Setup } from '../core/setup/schema.ts';
+import type { RunFrame, TrackApi, ViewWindow } from '../workers/protocol.ts';
+import { bucketAt } from './derived.ts';
+import { useApp, type AppState } from './store.ts';
+import { chooseWindow, needsRefit } from './viewWindow.ts';
+
+/** Particle coordinates come back as points (not only a histogram) below this count. */
+export const POINTS_MAX = 20_000;
+/** Worker time budget per call [ms]: short enough for a fresh picture every frame or two. */
+const BUDGET_MS = 40;
+/** Profiles kept for the waterfall. */
+const WATERFALL_ROWS = 300;
+
+let api: Comlink.Remote<TrackApi> | null = null;
+let busy = false;
+let sentSetup: Setup | null = null;
+let sentEpoch = -1;
+let view: ViewWindow | null = null;
+let goal = 0;
+// A re-binned picture is wanted (window refit while paused).
+let redraw = false;
+
+/** Start the worker and the frame loop (once, at page load). */
+export function startRunner(): void {
+  const worker = new Worker(new URL('../workers/trackWorker.ts', import.meta.url), { type: 'module' });
+  worker.addEventListener('error', (e) => fail(`the tracking worker failed to start (${e.message || 'no details'})`));
+  api = Comlink.wrap<TrackApi>(worker);
+  requestAnimationFrame(tick);
+}
+
+/** Synchronous energy at which the bucket is shown: the tracker's current one once it has run. */
+export function shownEnergy(s: Pick<AppState, 'frame'>): number | null {
+  return s.frame && s.frame.turn > 0 ? s.frame.Es : null;
+}
+
+/** Run until the setup's turn count (or that many more turns when already past it). */
+export function play(): void {
+  const s = useApp.getState();
+  const turn = s.frame?.turn ?? 0;
+  goal = turn < s.valid.run.turns ? s.valid.run.turns : turn + s.valid.run.turns;
+  useApp.setState({ running: true });
+}
+
+/** Track exactly n more turns, then stop. */
+export function step(n: number): void {
+  goal = (useApp.getState().frame?.turn ?? 0) + n;
+  useApp.setState({ running: true });
+}
+
+/** Stop after the call in flight. */
+export function pause(): void {
+  useApp.setState({ running: false });
+}
+
+/** All particles (alive first), for export. */
+export async function fetchParticles(): Promise<{ dt: Float64Array; dE: Float64Array; alive: number } | null> {
+  return api && !busy ? api.particles() : null;
+}
+
+function fail(message: string): void {
+  useApp.setState({ status: 'error', statusMessage: message, running: false });
+}
+
+// The beam must be regenerated when it has not been tracked yet or when what defines it changed.
+function needsNewBeam(prev: Setup | null, next: Setup, turn: number): boolean {
+  if (!prev) return true;
+  if (prev === next) return false;
+  if (turn === 0) return true;
+  const key = (s: Setup) => JSON.stringify([s.beam, s.particle, s.energy.start]);
+  return key(prev) !== key(next);
+}
+
+function tick(): void {
+  requestAnimationFrame(tick);
+  if (busy || !api) return;
+  const s = useApp.getState();
+  const turn = s.frame?.turn ?? 0;
+  if (s.beamEpoch !== sentEpoch || needsNewBeam(sentSetup, s.valid, turn)) {
+    const setup = s.valid;
+    sentEpoch = s.beamEpoch;
+    sentSetup = setup;
+    view = chooseWindow(bucketAt(setup, null), null);
+    call(() => api!.init(setup, view!, POINTS_MAX), true, 'generating the beam…');
+  } else if (s.valid !== sentSetup) {
+    const setup = s.valid;
+    sentSetup = setup;
+    busy = true;
+    api.updateSetup(setup).then(() => (busy = false), (e) => { busy = false; fail(String((e as Error).message ?? e)); });
+  } else if (redraw && !s.running && s.frame) {
+    redraw = false;
+    call(() => api!.run({ turns: 0, budgetMs: BUDGET_MS, view: view!, pointsMax: POINTS_MAX }), false, 'binning');
+  } else if (s.running && s.frame) {
+    if (turn >= goal) useApp.setState({ running: false, status: 'done', statusMessage: `stopped at turn ${turn}` });
+    else {
+      const req = { turns: Math.min(s.turnsPerFrame, goal - turn), budgetMs: BUDGET_MS, view: view!, pointsMax: POINTS_MAX };
+      call(() => api!.run(req), false, 'tracking');
+    }
+  }
+}
+
+function call(fn: () => Promise<RunFrame>, fresh: boolean, what: string): void {
+  busy = true;
+  if (fresh) useApp.setState({ statusMessage: what });
+  fn().then(
+    (f) => {
+      busy = false;
+      accept(f, fresh);
+    },
+    (e) => {
+      busy = false;
+      fail(String((e as Error)?.message ?? e));
+    },
+  );
+}
+
+// Store a frame: append the logged rows and profiles, and refit the view window if the beam outgrew it.
+function accept(f: RunFrame, fresh: boolean): void {
+  const s = useApp.getState();
+  const log = fresh ? f.rows : s.log.concat(f.rows);
+  let profiles = fresh ? f.profiles : s.profiles.concat(f.profiles);
+  if (profiles.length > WATERFALL_ROWS) profiles = profiles.slice(profiles.length - WATERFALL_ROWS);
+  const running = s.running;
+  useApp.setState({
+    frame: f, log, profiles, logVersion: s.logVersion + 1, ...(fresh ? { matched: f.matched ?? null } : {}),
+    status: running ? 'running' : 'ready',
+    statusMessage: running ? `tracking: ${f.turnsDone} turns in ${f.trackMs.toFixed(0)} ms` : 'ready',
+  });
+  const want = chooseWindow(bucketAt(s.valid, f.turn > 0 ? f.Es : null), f.current);
+  if (view && needsRefit(view, want)) {
+    view = want;
+    redraw = true;
+  }
+}

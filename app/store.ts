@@ -1,0 +1,93 @@
+// The one store: the setup being edited (draft), the last valid setup (what runs), validation issues, the run
+// status and the latest results from the tracker. Derived physics (machine, bucket, matched bunch) is computed
+// from `valid` by selectors in derived.ts, never stored here.
+import { create } from 'zustand';
+import type { Setup } from '../core/setup/schema.ts';
+import { parseSetup, type SetupIssue } from '../core/setup/validate.ts';
+import { setIn, type PathSeg } from './paths.ts';
+import { defaultPreset } from './presets.ts';
+import type { DiagRow, RunFrame } from '../workers/protocol.ts';
+import type { MatchedInfo } from '../core/beam/index.ts';
+
+export type RunStatus = 'starting' | 'ready' | 'running' | 'done' | 'error';
+
+export interface Notice {
+  kind: 'info' | 'error';
+  title: string;
+  lines: string[];
+}
+
+export interface AppState {
+  /** The document as edited; may be invalid. */
+  draft: unknown;
+  /** The last setup that validated; the tracker and the bucket view use this. */
+  valid: Setup;
+  /** Issues of the draft (empty when draft is valid). */
+  issues: SetupIssue[];
+  notice: Notice | null;
+  /** Bumped whenever the beam must be regenerated (beam block changed, reset, new setup loaded). */
+  beamEpoch: number;
+  status: RunStatus;
+  /** True while the user wants tracking to continue. */
+  running: boolean;
+  statusMessage: string;
+  turnsPerFrame: number;
+  stepTurns: number;
+  /** Latest results of the tracker (turn, histogram, profile, current diagnostics). */
+  frame: RunFrame | null;
+  /** Per-turn diagnostics since the beam was generated (appended in place; see logVersion). */
+  log: DiagRow[];
+  /** Line-density profiles at the logged turns, for the waterfall. */
+  profiles: { turn: number; profile: Float64Array }[];
+  logVersion: number;
+  /** Matched-bunch numbers of the beam as generated (computed with it in the worker), null if not matched. */
+  matched: MatchedInfo | null;
+}
+
+const first = defaultPreset();
+
+/** The application store (zustand). */
+export const useApp = create<AppState>(() => ({
+  draft: first.setup,
+  valid: first.setup,
+  issues: [],
+  notice: null,
+  beamEpoch: 0,
+  status: 'starting',
+  running: false,
+  statusMessage: 'starting the tracker…',
+  turnsPerFrame: 20,
+  stepTurns: 100,
+  frame: null,
+  log: [],
+  profiles: [],
+  logVersion: 0,
+  matched: null,
+}));
+
+/** Replace the draft; if it validates it becomes the running setup, else the last valid one keeps running. */
+export function setDraft(draft: unknown): void {
+  const r = parseSetup(draft);
+  if (r.ok) useApp.setState({ draft, valid: r.setup, issues: [] });
+  else useApp.setState({ draft, issues: r.errors });
+}
+
+/** Edit one field of the draft. */
+export function editField(path: readonly PathSeg[], value: unknown): void {
+  setDraft(setIn(useApp.getState().draft, path, value));
+}
+
+/** Load a whole setup (preset, file or link): the beam is regenerated. */
+export function loadSetup(setup: Setup, notice: Notice | null = null): void {
+  useApp.setState((s) => ({ draft: setup, valid: setup, issues: [], notice, beamEpoch: s.beamEpoch + 1 }));
+}
+
+/** Show or clear the notice banner. */
+export function setNotice(notice: Notice | null): void {
+  useApp.setState({ notice });
+}
+
+/** Ask for a fresh beam from the current valid setup. */
+export function resetBeam(): void {
+  useApp.setState((s) => ({ beamEpoch: s.beamEpoch + 1, running: false }));
+}

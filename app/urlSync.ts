@@ -1,0 +1,40 @@
+// Keeps the URL fragment equal to the running setup, and opens the setup a link carries. A link that cannot
+// be opened says why and falls back to the default setup, so the page always works.
+import { decodeFragment, encodeSetup } from './urlCodec.ts';
+import { defaultPreset } from './presets.ts';
+import { loadSetup, useApp } from './store.ts';
+
+// Wait this long after the last edit before rewriting the address bar.
+const WRITE_DELAY_MS = 250;
+
+/** Load the setup of the current location's fragment (or the default one). */
+export function openFromLocation(): void {
+  const r = decodeFragment(location.hash);
+  if (r.kind === 'ok') {
+    const note = r.migratedFrom !== undefined ? { kind: 'info' as const, title: `This link used setup version ${r.migratedFrom}; it was brought up to date.`, lines: [] } : null;
+    loadSetup(r.setup, note);
+  } else if (r.kind === 'error') {
+    loadSetup(defaultPreset().setup, { kind: 'error', title: 'The link could not be opened; the default setup is shown instead.', lines: r.lines });
+  }
+}
+
+/** Write the fragment whenever the valid setup changes; follow pasted links. */
+export function startUrlSync(): void {
+  let timer = 0;
+  const write = () => {
+    const frag = '#' + encodeSetup(useApp.getState().valid);
+    if (frag !== location.hash) history.replaceState(null, '', frag);
+  };
+  useApp.subscribe((s, prev) => {
+    if (s.valid === prev.valid) return;
+    clearTimeout(timer);
+    timer = window.setTimeout(write, WRITE_DELAY_MS);
+  });
+  window.addEventListener('hashchange', openFromLocation);
+  if (!location.hash || useApp.getState().notice?.kind === 'error') write();
+}
+
+/** A link to the running setup (written now, not after the delay). */
+export function currentLink(): string {
+  return location.href.replace(/#.*$/, '') + '#' + encodeSetup(useApp.getState().valid);
+}
