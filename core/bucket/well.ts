@@ -3,7 +3,7 @@
 // H'(φ, δ) = π·h·|η|·δ² + U(φ), U(φ) = −sgn(η)·(β²E)⁻¹·∫_{φs}^{φ} F dφ', so wells are minima of U for either sign
 // of η and U(φs) = 0. Along increasing φ, U' = −sgn(η)·F/(β²E).
 import type { MachineState } from '../machine.ts';
-import { maxHarmonicRatio, potential, rfGain, type RfWave } from '../rf.ts';
+import { maxHarmonicRatio, rfGain, type RfWave } from '../rf.ts';
 
 // Sampling density for root and level searches: ≥2000 per main period, ≥50 per period of the highest harmonic
 // (PHYSICS.md §8, step 1).
@@ -36,9 +36,9 @@ export function wellOf(m: MachineState): Well {
   };
 }
 
-/** U(φ) per turn. */
+/** U(φ) per turn; the product form keeps relative precision ~1e-16/|φ − φs| near the well bottom (cos differences give 1e-16/|φ − φs|²). */
 export function wellU(q: Well, phi: number): number {
-  return potential(q.w, q.phiS, phi, q.sgn, q.b2E);
+  return -wellDrop(q, q.phiS, phi - q.phiS);
 }
 
 /** U(e) − U(e + d), accurate for small d: cos A − cos B written as a product of sines. */
