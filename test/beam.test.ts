@@ -5,7 +5,8 @@
 import ellipe from '@stdlib/math-base-special-ellipe';
 import ellipk from '@stdlib/math-base-special-ellipk';
 import { describe, expect, it } from 'vitest';
-import { matchBunch, sampleMatched, type BucketBounds, type MatchedShape } from '../core/beam/index.ts';
+import { generateBeam, GAUSSIAN_CONTOUR_LEVEL, matchBunch, sampleMatched, type BucketBounds, type MatchedShape } from '../core/beam/index.ts';
+import { computeBucket, contourAt } from '../core/bucket.ts';
 import { makeBunch, type Bunch } from '../core/bunch.ts';
 import { machineAtStart, type MachineState } from '../core/machine.ts';
 import { makeRng } from '../core/rng.ts';
@@ -13,14 +14,15 @@ import { parseSetup } from '../core/setup/validate.ts';
 
 const V = 50e3;
 
-function setupOf(distribution: unknown, extra: Record<string, unknown> = {}) {
+function setupOf(distribution: unknown, beam: Record<string, unknown> = {}, more: Record<string, unknown> = {}) {
   const r = parseSetup({
     version: 1,
     particle: { kind: 'proton' },
     ring: { circumference: 100, gammaT: 5 },
     energy: { start: { quantity: 'kinetic', value: 1e9 } },
     rf: { systems: [{ harmonic: 4, voltage: V }] },
-    beam: { distribution, particles: 1000, ...extra },
+    beam: { distribution, particles: 1000, ...beam },
+    ...more,
   });
   if (!r.ok) throw new Error(JSON.stringify(r.errors));
   return r.setup;
@@ -207,5 +209,133 @@ describe('large bunches (half the bucket): contour against 4σt and 2σE', () =>
       /beam\.distribution\.size\.value = .* eV·s: the contour emittance exceeds .* bucket \(area/,
     );
     expect(() => matchBunch(m, bucket, 'gaussian', { by: 'rmsLength', value: 1 / m.omegaRf })).toThrow(/rms length exceeds/);
+  });
+});
+
+describe('unmatched beams', () => {
+  // Requested σt; σE = mismatch·β²E·(ω_s/|η|)·σt with ω_s from PHYSICS.md §6 (computed above from V directly).
+  // Relative standard error of a sample rms: sqrt((κ − 1)/(4N)) for kurtosis κ (3 Gaussian, 75/35 for a
+  // parabolic projection); 4/sqrt(2N) covers both at four standard errors.
+  const N = 200_000;
+  const sigmaT = 0.3 / m.omegaRf;
+  for (const shape of ['gaussian', 'parabolic'] as const) {
+    it(`${shape}: rms length and energy spread as requested (mismatch 1.7)`, () => {
+      const g = generateBeam(setupOf({ kind: 'unmatched', shape, rmsLength: sigmaT, mismatch: 1.7 }, { particles: N }), m);
+      expect(g.matched).toBeNull();
+      const s = moments(g.bunch);
+      const sigmaE = 1.7 * beta2E * (omegaS / Math.abs(m.eta0)) * sigmaT;
+      expect(Math.abs(s.sigmaT / sigmaT - 1)).toBeLessThan(4 / Math.sqrt(2 * N));
+      expect(Math.abs(s.sigmaE / sigmaE - 1)).toBeLessThan(4 / Math.sqrt(2 * N));
+      expect(Math.abs(s.meanT / sigmaT)).toBeLessThan(4 / Math.sqrt(N));
+    });
+  }
+  it('parabolic: bounded by the ellipse of semi-axes √5·σ (line density ∝ 1 − x², ⟨x²⟩ = x̂²/5)', () => {
+    const g = generateBeam(setupOf({ kind: 'unmatched', shape: 'parabolic', rmsLength: sigmaT, mismatch: 1 }, { particles: 10_000 }), m);
+    const sigmaE = beta2E * (omegaS / Math.abs(m.eta0)) * sigmaT;
+    let out = 0;
+    for (let i = 0; i < g.bunch.n; i++) if ((g.bunch.dt[i] / sigmaT) ** 2 + (g.bunch.dE[i] / sigmaE) ** 2 > 5 * (1 + 1e-12)) out++;
+    expect(out).toBe(0);
+  });
+  it('needs a linear synchrotron frequency', () => {
+    // Double RF in bunch-lengthening mode, V2 = V1/2 at h2 = 2h1 in antiphase: F'(φs) = 0 (PHYSICS.md §8).
+    const s = setupOf({ kind: 'unmatched', shape: 'gaussian', rmsLength: sigmaT, mismatch: 1 }, {}, {
+      rf: { systems: [{ harmonic: 4, voltage: V }, { harmonic: 8, voltage: V / 2, phase: 180 }] },
+    });
+    expect(() => generateBeam(s, machineAtStart(s))).toThrow(/beam\.distribution\.kind = unmatched: the RF slope at φs is 0/);
+  });
+});
+
+describe('coasting beam', () => {
+  it('is uniform over one RF period and Gaussian in energy', () => {
+    // Uniform on [−T/2, T/2): mean 0 with standard error T/sqrt(12N); rms T/√12 with relative standard error
+    // sqrt((κ − 1)/(4N)), κ = 9/5 for a uniform law. Four standard errors.
+    const N = 200_000;
+    const g = generateBeam(setupOf({ kind: 'coasting', rmsEnergySpread: 2e5 }, { particles: N }), m);
+    const T = (2 * Math.PI) / m.omegaRf;
+    const s = moments(g.bunch);
+    expect(Math.abs(s.meanT) / (T / Math.sqrt(12 * N))).toBeLessThan(4);
+    expect(Math.abs(s.sigmaT / (T / Math.sqrt(12)) - 1)).toBeLessThan(4 * Math.sqrt(0.2 / N));
+    expect(Math.abs(s.sigmaE / 2e5 - 1)).toBeLessThan(4 / Math.sqrt(2 * N));
+    let lo = Infinity, hi = -Infinity;
+    for (let i = 0; i < N; i++) {
+      lo = Math.min(lo, g.bunch.dt[i]);
+      hi = Math.max(hi, g.bunch.dt[i]);
+    }
+    expect(lo).toBeGreaterThanOrEqual(-T / 2);
+    expect(hi).toBeLessThan(T / 2);
+    expect(hi - lo).toBeGreaterThan(T * (1 - 1e-3)); // the gaps at the ends are ~T/N
+  });
+});
+
+describe('seeds and offsets', () => {
+  const dist = { kind: 'matched', shape: 'parabolic', size: { by: 'rmsLength', value: 1e-8 } };
+  it('same seed → identical arrays; another seed → different', () => {
+    const a = generateBeam(setupOf(dist, { seed: 3 }), m).bunch;
+    const b = generateBeam(setupOf(dist, { seed: 3 }), m).bunch;
+    const c = generateBeam(setupOf(dist, { seed: 4 }), m).bunch;
+    expect(a.dt).toEqual(b.dt);
+    expect(a.dE).toEqual(b.dE);
+    expect(a.dt).not.toEqual(c.dt);
+    expect(a.dE).not.toEqual(c.dE);
+  });
+  it('adds the time and energy offsets to every particle', () => {
+    for (const d of [dist, { kind: 'coasting', rmsEnergySpread: 1e5 }, { kind: 'unmatched', shape: 'gaussian', rmsLength: 1e-8 }]) {
+      const a = generateBeam(setupOf(d, { seed: 3 }), m).bunch;
+      const b = generateBeam(setupOf(d, { seed: 3, timeOffset: 2e-9, energyOffset: -3e5 }), m).bunch;
+      for (let i = 0; i < a.n; i += 97) {
+        expect(b.dt[i] - a.dt[i]).toBeCloseTo(2e-9, 20);
+        expect(b.dE[i] - a.dE[i]).toBeCloseTo(-3e5, 6);
+      }
+    }
+  });
+});
+
+describe('matched bunches in other buckets (bucket from core/bucket.ts)', () => {
+  // An accelerating bucket (φs = 30°) and a stationary one above transition (γt = 1.5 < γ ≈ 2.07, φs = π).
+  const moving = setupOf({ kind: 'matched', shape: 'gaussian', size: { by: 'emittance', convention: 'rms', value: 0.01 } },
+    { particles: 200_000 }, { energy: { start: { quantity: 'kinetic', value: 1e9 }, ramp: { kind: 'gainPerTurn', value: V / 2 } } });
+  const above = setupOf({ kind: 'matched', shape: 'flat', size: { by: 'emittance', convention: 'fourSigma', value: 0.2 } },
+    { particles: 200_000 }, { ring: { circumference: 100, gammaT: 1.5 } });
+  for (const [name, s] of [['accelerating, φs = 30°', moving], ['above transition', above]] as const) {
+    it(`${name}: request met, sample moments as predicted, contour as core/bucket.ts contourAt`, () => {
+      const mm = machineAtStart(s);
+      const g = generateBeam(s, mm);
+      const info = g.matched!;
+      const d = s.beam.distribution as { size: { convention: string; value: number } };
+      const got = d.size.convention === 'rms' ? info.emittanceRms : info.emittanceFourSigma;
+      expect(Math.abs(got / d.size.value - 1)).toBeLessThan(1e-9);
+      // Statistics as above (4/sqrt(2N)). The half-drift shear of generate.ts changes σt by ≈ (πQs)²/2 < 1e-4.
+      const st = moments(g.bunch);
+      const N = g.bunch.n;
+      expect(Math.abs(st.sigmaT / info.rmsLength - 1)).toBeLessThan(4 / Math.sqrt(2 * N) + 1e-4);
+      expect(Math.abs(st.sigmaE / info.rmsEnergySpread - 1)).toBeLessThan(4 / Math.sqrt(2 * N));
+      expect(Math.abs(st.emitRms / info.emittanceRms - 1)).toBeLessThan(8 / Math.sqrt(2 * N));
+      // Two quadratures written differently (cosine substitution here, tanh-sinh in bucket.ts): 1e-6.
+      const r = computeBucket(mm);
+      if (!r.ok) throw new Error(r.reason);
+      const level = info.shape === 'gaussian' ? GAUSSIAN_CONTOUR_LEVEL * info.scale : info.scale;
+      const c = contourAt(mm, r.bucket, level);
+      expect(Math.abs(info.contourArea / c.area - 1)).toBeLessThan(1e-6);
+      expect(Math.abs(info.contourLength / c.length - 1)).toBeLessThan(1e-6);
+      expect(Math.abs(info.contourHalfHeight / c.halfHeightDE - 1)).toBeLessThan(1e-6);
+      expect(Math.abs(info.fillingFactor - c.area / r.bucket.area)).toBeLessThan(1e-6);
+    });
+  }
+  it('a tiny bunch (σt = 1e-15 s) in the accelerating bucket obeys linear matching', () => {
+    // PHYSICS.md §9 (Lee ch. 3, from memory) with ω_s from §6, ZV·|cos φs| = ZV·cos 30°. At σφ ≈ 1e-7 rad the
+    // nonlinearity is ~σφ ≈ 1e-7; the tolerance 1e-6 tests that U stays accurate this close to φs.
+    const mm = machineAtStart(moving);
+    const r = computeBucket(mm);
+    if (!r.ok) throw new Error(r.reason);
+    const info = matchBunch(mm, r.bucket, 'parabolic', { by: 'rmsLength', value: 1e-15 });
+    const b2E = mm.beta * mm.beta * mm.Es;
+    const ws = Math.sqrt((mm.h * Math.abs(mm.eta0) * V * Math.cos(Math.PI / 6)) / (2 * Math.PI * b2E)) * mm.omega0;
+    expect(Math.abs(info.rmsLength / 1e-15 - 1)).toBeLessThan(1e-9);
+    expect(Math.abs((b2E * ws * 1e-15) / Math.abs(mm.eta0) / info.rmsEnergySpread - 1)).toBeLessThan(1e-6);
+  });
+  it('a matched beam needs a bucket: the error names the field and the reason', () => {
+    const s = setupOf({ kind: 'matched', shape: 'flat', size: { by: 'rmsLength', value: 1e-8 } }, {},
+      { energy: { start: { quantity: 'kinetic', value: 1e9 }, ramp: { kind: 'gainPerTurn', value: 2 * V } } });
+    expect(() => generateBeam(s, machineAtStart(s))).toThrow(/^beam\.distribution\.kind = matched: no bucket/);
   });
 });

@@ -10,10 +10,17 @@ import type { MachineState } from '../machine.ts';
 import { rfGainSlope } from '../rf.ts';
 import type { Rng } from '../rng.ts';
 
+// |F'(φs)| below this fraction of Σ|ZV_k·n_k| counts as a flat well (the same tolerance as core/synchronous.ts).
+const FLAT_SLOPE = 1e-9;
+
 /** Linear synchrotron angular frequency ω_s [rad/s] (PHYSICS.md §6); 0 for a flat (quartic) well. */
 export function linearOmegaS(m: MachineState): number {
   const beta2E = m.beta * m.beta * m.Es;
-  const Qs = Math.sqrt((m.h * Math.abs(m.eta0) * Math.abs(rfGainSlope(m.wave, m.phiS))) / (2 * Math.PI * beta2E));
+  let scale = 0;
+  for (let k = 0; k < m.wave.ZV.length; k++) scale += Math.abs(m.wave.ZV[k] * m.wave.n[k]);
+  const slope = Math.abs(rfGainSlope(m.wave, m.phiS));
+  if (slope <= FLAT_SLOPE * scale) return 0;
+  const Qs = Math.sqrt((m.h * Math.abs(m.eta0) * slope) / (2 * Math.PI * beta2E));
   return Qs * m.omega0;
 }
 
