@@ -11,26 +11,29 @@ import { potential } from './rf.ts';
 import { tanhSinh } from './bucket/quadrature.ts';
 import { levelCrossing, refineStable, scanExtrema, wellDrop, wellOf, wellU, type Extremum, type Well } from './bucket/well.ts';
 
+/** An inner well of a multi-harmonic bucket, bounded by its nearest U maxima at the lower of their levels. */
 export interface SubBucket {
-  phiS: number;
-  phiLeft: number;
+  phiS: number; // its U minimum [rad]
+  phiLeft: number; // ends of its separatrix [rad]
   phiRight: number;
-  area: number;
+  area: number; // [eV·s]
 }
 
+/** Geometry of the bucket around the synchronous phase. U has its origin at m.phiS (as in hamiltonian()). */
 export interface BucketInfo {
-  phiS: number;
-  phiLeft: number;
+  phiS: number; // stable fixed point (true U minimum nearest m.phiS), main-harmonic phase [rad]
+  phiLeft: number; // bucket ends [rad]: where the separatrix closes (U = Usep), phiLeft < phiS < phiRight
   phiRight: number;
-  unstable: number[];
-  Usep: number;
-  area: number;
-  halfHeightDE: number;
-  halfHeightDelta: number;
-  length: number;
-  subBuckets: SubBucket[];
+  unstable: number[]; // unstable fixed points (U maxima) bounding this bucket [rad]
+  Usep: number; // value of H' on the separatrix
+  area: number; // [eV·s]
+  halfHeightDE: number; // max dE on the separatrix [eV]
+  halfHeightDelta: number; // the same as δ = dE/(β²E)
+  length: number; // (phiRight − phiLeft)/ω_rf [s]
+  subBuckets: SubBucket[]; // inner wells inside this bucket (multi-harmonic), empty if none
 }
 
+/** Either the bucket or the plain reason there is none. */
 export type BucketResult = { ok: true; bucket: BucketInfo } | { ok: false; reason: string };
 
 const TWO_PI = 2 * Math.PI;
