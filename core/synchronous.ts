@@ -20,9 +20,8 @@ export function stableSlope(eta: number): Slope {
   return eta < 0 ? 'rising' : 'falling';
 }
 
-/** Refine a bracketed root of F on [a, b] by bisection to machine precision (no allocation). */
-export function bisectRoot(w: RfWave, a: number, b: number): number {
-  let fa = rfGain(w, a);
+/** Refine a bracketed root of F on [a, b] by bisection to machine precision (no allocation); fa = F(a). */
+export function bisectRoot(w: RfWave, a: number, b: number, fa = rfGain(w, a)): number {
   for (let i = 0; i < 200 && b - a > 1e-15 * (1 + Math.abs(a)); i++) {
     const m = 0.5 * (a + b);
     const fm = rfGain(w, m);
@@ -63,12 +62,14 @@ export function solveSyncPhase(w: RfWave, slope: Slope): SyncPhase {
   const step = (2 * Math.PI) / N;
   let best = NaN;
   let bestDist = Infinity;
+  let aPrev = a0;
   let fPrev = rfGain(w, a0);
   for (let i = 1; i <= N; i++) {
     const b = a0 + i * step;
     const fb = rfGain(w, b);
     if (fPrev === 0 || fPrev < 0 !== fb < 0) {
-      const root = fPrev === 0 ? b - step : bisectRoot(w, b - step, b);
+      // Bisect from the stored sample (recomputing F at aPrev could flip the sign of a tiny value).
+      const root = fPrev === 0 ? aPrev : bisectRoot(w, aPrev, b, fPrev);
       if (isStable(w, root, slope)) {
         const dist = Math.abs(root - guess);
         if (dist < bestDist) {
@@ -77,6 +78,7 @@ export function solveSyncPhase(w: RfWave, slope: Slope): SyncPhase {
         }
       }
     }
+    aPrev = b;
     fPrev = fb;
   }
   if (Number.isNaN(best)) {
@@ -88,7 +90,7 @@ export function solveSyncPhase(w: RfWave, slope: Slope): SyncPhase {
         `${fmt(peak)} eV on the ${slope} slope`,
     };
   }
-  return { ok: true, phiS: wrapPhase(best), slope };
+  return { ok: true, phiS: wrapSyncPhase(best), slope };
 }
 
 /** Largest energy gain Z·ΣV_k sin(n_k φ + Φ_k) over one main period [eV] (sampled, then refined). */
@@ -97,6 +99,12 @@ export function maxGain(w: RfWave): number {
   let m = -Infinity;
   for (let i = 0; i < N; i++) m = Math.max(m, rfGain(w, (2 * Math.PI * i) / N) + w.dEs);
   return m;
+}
+
+/** Map φs into [−π/2, 3π/2): rising-slope phases near 0, falling-slope ones near π (stationary above transition: π). */
+export function wrapSyncPhase(p: number): number {
+  const q = (((p + Math.PI / 2) % (2 * Math.PI)) + 2 * Math.PI) % (2 * Math.PI);
+  return q - Math.PI / 2;
 }
 
 /** Map a phase into (−π, π]. */
