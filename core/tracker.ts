@@ -37,7 +37,7 @@ export class Tracker {
     return this.stepper.state;
   }
 
-  /** Number of turns tracked so far (plus the start turn of the setup). */
+  /** Index of the next turn to track (= turns tracked so far; kept across updateSetup). */
   get turn(): number {
     return this.stepper.state.turn;
   }

@@ -9,6 +9,7 @@ import { fractionEmittances } from './ellipse.ts';
 import { insideSeparatrix } from './inside.ts';
 import { fwhm } from './profile.ts';
 
+/** One turn's reductions of the bunch (alive particles unless stated). */
 export interface TurnDiagnostics {
   turn: number;
   /** Time since turn 0 [s]. */

@@ -12,6 +12,7 @@ import { loseParticle, type Bunch } from '../bunch.ts';
 import type { MachineState } from '../machine.ts';
 import type { Element } from './types.ts';
 
+/** First-order slip (η0) or the exact time of flight. */
 export type DriftMode = 'linear' | 'exact';
 
 /** Energy offset [eV] at which Δp/p = x exactly (momentum pc, total energy Es, rest energy mass; no cancellation). */
