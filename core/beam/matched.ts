@@ -13,6 +13,7 @@ import type { Rng } from '../rng.ts';
 import { energyIntegrals, type MatchedShape } from './shapes.ts';
 import { contourGeometry, levelEnds, makeWell, phaseNodes, wellU, type BucketBounds, type Well } from './well.ts';
 
+/** Predicted numbers of a matched bunch (exact to quadrature accuracy). */
 export interface MatchedInfo {
   shape: 'gaussian' | 'parabolic' | 'flat';
   /** Parameter of G: H0 (gaussian) or Hm (parabolic/flat), in H' units. */
@@ -114,7 +115,7 @@ export function matchBunch(m: MachineState, bucket: BucketBounds, shape: Matched
   return matchedNumbers(m, bucket, shape, Math.exp(0.5 * (lo + up)));
 }
 
-/** Fill bunch columns [from, from+count) with a matched distribution of a given scale (offsets not added). */
+/** Fill all columns of `out` with a matched distribution of a given scale (offsets not added). */
 export function sampleMatched(
   m: MachineState, b: BucketBounds, shape: MatchedShape, scale: number, rng: Rng, out: Bunch,
 ): void {

@@ -14,6 +14,7 @@
 // The common factor B(½, μ+1) is dropped: only ratios of integrals are used.
 import { erf } from './erf.ts';
 
+/** Name of a matched shape G(H'). */
 export type MatchedShape = 'gaussian' | 'parabolic' | 'flat';
 
 /** Binomial exponent μ of G = (1 − H'/Hm)^μ for the bounded shapes. */

@@ -21,6 +21,7 @@ export interface BucketBounds {
   area: number;
 }
 
+/** Precomputed description of the well: machine, bucket bounds and the coefficients of U. */
 export interface Well {
   m: MachineState;
   b: BucketBounds;
