@@ -368,3 +368,44 @@ describe('matched bunches in other buckets (bucket from core/bucket.ts)', () => 
     expect(() => generateBeam(s, machineAtStart(s))).toThrow(/^beam\.distribution\.kind = matched: no bucket/);
   });
 });
+
+describe('double RF (h = 4 and 8 in antiphase, V2 = r·V1)', () => {
+  // PHYSICS.md §8: r = 1/2 gives a flat (quartic) well at φs; r = 0.8 > 1/2 raises an inner hump between two
+  // sub-buckets. Sub-bucket geometry from core/bucket.ts (tanh-sinh quadrature, written independently).
+  const dual = (r2: number, distribution: unknown) =>
+    setupOf(distribution, { particles: 200_000 }, { rf: { systems: [{ harmonic: 4, voltage: V }, { harmonic: 8, voltage: r2 * V, phase: 180 }] } });
+  const check = (s: ReturnType<typeof setupOf>) => {
+    const mm = machineAtStart(s);
+    const r = computeBucket(mm);
+    if (!r.ok) throw new Error(r.reason);
+    const g = generateBeam(s, mm);
+    const info = g.matched!;
+    const st = moments(g.bunch);
+    const tol = 4 / Math.sqrt(2 * g.bunch.n); // statistics, as above
+    expect(Math.abs(st.sigmaT / info.rmsLength - 1)).toBeLessThan(tol);
+    expect(Math.abs(st.sigmaE / info.rmsEnergySpread - 1)).toBeLessThan(tol);
+    const level = info.shape === 'gaussian' ? GAUSSIAN_CONTOUR_LEVEL * info.scale : info.scale;
+    const c = contourAt(mm, r.bucket, level);
+    expect(Math.abs(info.contourArea / c.area - 1)).toBeLessThan(1e-4); // 1e-4: a kink at the hump top
+    expect(Math.abs(info.contourLength / c.length - 1)).toBeLessThan(1e-6);
+    return { info, bucket: r.bucket };
+  };
+  it('flat well (r = 1/2): parabolic bunch on 30 % of the bucket', () => {
+    const { info } = check(dual(0.5, { kind: 'matched', shape: 'parabolic', size: { by: 'emittance', convention: 'contour', value: 0.3 } }));
+    expect(info.fillingFactor).toBeGreaterThan(0.2);
+  });
+  it('inner hump (r = 0.8): bunches inside one sub-bucket and over both; sizes in the jump are refused', () => {
+    const s0 = dual(0.8, { kind: 'coasting', rmsEnergySpread: 0 });
+    const r = computeBucket(machineAtStart(s0));
+    if (!r.ok) throw new Error(r.reason);
+    const own = r.bucket.subBuckets.find((b) => b.phiLeft < r.bucket.phiS && r.bucket.phiS < b.phiRight)!;
+    expect(r.bucket.subBuckets.length).toBe(2);
+    const small = check(dual(0.8, { kind: 'matched', shape: 'flat', size: { by: 'emittance', convention: 'contour', value: 0.5 * own.area } }));
+    expect(Math.abs(small.info.contourArea / (0.5 * own.area) - 1)).toBeLessThan(1e-6);
+    const big = check(dual(0.8, { kind: 'matched', shape: 'gaussian', size: { by: 'emittance', convention: 'contour', value: 0.6 * r.bucket.area } }));
+    expect(big.info.contourLength * machineAtStart(s0).omegaRf).toBeGreaterThan(own.phiRight - own.phiLeft);
+    // Just above the sub-bucket's own area the flat contour must already hold the other sub-bucket too.
+    const gap = dual(0.8, { kind: 'matched', shape: 'flat', size: { by: 'emittance', convention: 'contour', value: 1.05 * own.area } });
+    expect(() => generateBeam(gap, machineAtStart(gap))).toThrow(/no matched flat bunch has this contour emittance; it jumps/);
+  });
+});

@@ -42,6 +42,8 @@ const NODES = 2048;
 // Bisection steps in log(scale) over SCALE_DECADES decades: 2^−80·ln(1e40) ≈ 8e-23, below double precision.
 const BISECTION_STEPS = 80;
 const SCALE_DECADES = 40;
+// A solved size farther than this from the request means the request fell into a jump (inner humps).
+const SIZE_TOLERANCE = 1e-6;
 
 /** Largest admissible scale: the limiting contour on the separatrix. */
 export function maxScale(shape: MatchedShape, b: BucketBounds): number {
@@ -112,7 +114,17 @@ export function matchBunch(m: MachineState, bucket: BucketBounds, shape: Matched
     if (pick(matchedNumbers(m, bucket, shape, Math.exp(mid))) < size.value) lo = mid;
     else up = mid;
   }
-  return matchedNumbers(m, bucket, shape, Math.exp(0.5 * (lo + up)));
+  const best = matchedNumbers(m, bucket, shape, Math.exp(0.5 * (lo + up)));
+  // With inner humps the sizes jump where the contour rises over a hump and takes in the next sub-bucket.
+  if (Math.abs(pick(best) / size.value - 1) > SIZE_TOLERANCE) {
+    const below = pick(matchedNumbers(m, bucket, shape, Math.exp(lo)));
+    const above = pick(matchedNumbers(m, bucket, shape, Math.exp(up)));
+    throw new Error(
+      `beam.distribution.size.value = ${fmt(size.value)} ${unit}: no matched ${shape} bunch has this ${what}; it jumps ` +
+      `from ${fmt(below)} to ${fmt(above)} ${unit} where the bunch rises over an inner hump of the bucket into the next sub-bucket`,
+    );
+  }
+  return best;
 }
 
 /** Fill all columns of `out` with a matched distribution of a given scale (offsets not added). */
