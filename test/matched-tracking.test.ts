@@ -1,10 +1,11 @@
 // Matched bunches stay matched under the tracker's one-turn map; a mismatched bunch filaments.
 // Test machine (fictional): protons at 1 GeV kinetic, C = 100 m, γt = 5, h = 4, V = 1 MV, no ramp: a stationary
 // bucket below transition with Q_s ≈ 9e-3 (PHYSICS.md §6), small enough for the continuous Hamiltonian of §5
-// (the map's tune differs by (πQs)²/6 ≈ 1e-4). Bucket bounds in closed form (PHYSICS.md §7): separatrix ends ±π,
-// U_sep = 2ZV/(β²E), area A0 = (8/ω_rf)·sqrt(2ZVβ²E/(π·h·|η|)).
+// (the map's tune differs by (πQs)²/6 ≈ 1e-4). Bucket area in closed form (PHYSICS.md §7):
+// A0 = (8/ω_rf)·sqrt(2ZVβ²E/(π·h·|η|)).
 import { describe, expect, it } from 'vitest';
-import { generateBeam, type BucketBounds, type MatchedShape } from '../core/beam/index.ts';
+import { generateBeam, type MatchedShape } from '../core/beam/index.ts';
+import { computeBucket } from '../core/bucket.ts';
 import type { Bunch } from '../core/bunch.ts';
 import { computeDiagnostics } from '../core/diagnostics/index.ts';
 import { machineAtStart } from '../core/machine.ts';
@@ -30,7 +31,9 @@ const setup = setupWith({ kind: 'coasting', rmsEnergySpread: 0 });
 const m = machineAtStart(setup);
 const beta2E = m.beta * m.beta * m.Es;
 const A0 = (8 / m.omegaRf) * Math.sqrt((2 * V * beta2E) / (Math.PI * m.h * Math.abs(m.eta0)));
-const bucket: BucketBounds = { phiS: 0, phiLeft: -Math.PI, phiRight: Math.PI, Usep: (2 * V) / beta2E, area: A0 };
+const found = computeBucket(m);
+if (!found.ok) throw new Error(found.reason);
+const bucket = found.bucket; // for the inside-separatrix diagnostic
 const Qs = Math.sqrt((m.h * Math.abs(m.eta0) * V) / (2 * Math.PI * beta2E));
 const PERIODS = 20;
 const turns = Math.ceil(PERIODS / Qs);
