@@ -24,7 +24,7 @@ export function parseCommandLine(argv: string[]): ParsedArgs {
     const { values, positionals } = parseArgs({ args: argv, options: OPTIONS, allowPositionals: true, strict: true });
     return { command: positionals[0], positional: positionals.slice(1), options: values };
   } catch (e) {
-    throw new UsageError((e as Error).message);
+    throw new UsageError((e as Error).message.replace(/\s*\n\s*/g, ' '));
   }
 }
 
