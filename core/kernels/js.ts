@@ -3,8 +3,14 @@
 // the same IEEE operations in the same order, so with sine = 'poly' both give identical bits):
 //   kick:   acc = A_0·sin(φ_0 + w_0·dt); acc = acc + A_k·sin(φ_k + w_k·dt) …;  dE = dE + (acc − dEsync)
 //   linear: dt = dt + slip·dE
-//   exact:  ε = dE/E_s, w = ε(2+ε), u = w/β², δ = u/(1+√(1+u)), path = δ(α0 + δ(α1 + δα2)),
-//           dt = dt + period·((1+ε)·path − w/(β²γ²)/(2+ε+δ))/(1+δ)          (PHYSICS.md §3)
+//   exact:  ε = dE/E_s, w = ε(2+ε), u = w/β², s = √max(1+u, 0), D = 1+s, B = (2+ε)·D + u,
+//           Q = α0·D² + u·(α1·D + α2·u),  dt = dt + period·((1+ε)·u·Q·B − (w/(β²γ²))·D⁴)/(s·D³·B)
+//           This is PHYSICS.md §3, T/T_s − 1 = [(1+ε)(α0δ+α1δ²+α2δ³) − w/(β²γ²(2+ε+δ))]/(1+δ) with
+//           δ = u/D, 1+δ = s (since (1+δ)² = 1+u) and (2+ε+δ) = B/D, over one common denominator:
+//           one division instead of three (division and square root share one slow unit). No cancellation
+//           beyond the physical one (η). max(…, 0) only guards rounding at the domain edge dE → −(E_s − m),
+//           where s → 0 and the drift → +∞ (the particle is then outside any finite dtMax, never NaN).
+//           Overflow (hence NaN) needs |dE/E_s| > ~1e50.
 //   loss:   count the particles with !(|dt| ≤ dtMax and dEmin ≤ dE ≤ dEmax) after the pass.
 // Hot loops take every parameter as an argument (PERF.md: module-scope reads in the loop halve the speed).
 import { sinPoly } from './sine.ts';
@@ -72,6 +78,19 @@ export function createJsKernel(options: { sine?: 'poly' | 'native' } = {}): Turn
   return kernel;
 }
 
+/** T(E_s+dE)/T_s − 1 with one division (formula in the header; the wasm kernels use the same operations). */
+export function exactRelative(e: number, invEs: number, invB2: number, invB2G2: number, a0: number, a1: number, a2: number): number {
+  const eps = e * invEs;
+  const w = eps * (2 + eps);
+  const u = w * invB2;
+  const s = Math.sqrt(Math.max(1 + u, 0));
+  const D = 1 + s;
+  const D2 = D * D;
+  const B = (2 + eps) * D + u;
+  const Q = a0 * D2 + u * (a1 * D + a2 * u);
+  return ((1 + eps) * u * Q * B - w * invB2G2 * (D2 * D2)) / (s * (D2 * D) * B);
+}
+
 function kick1(dt: Float64Array, dE: Float64Array, n: number, sin: Sine, a0: number, w0: number, p0: number, sync: number): void {
   for (let i = 0; i < n; i++) dE[i] = dE[i] + (a0 * sin(p0 + w0 * dt[i]) - sync);
 }
@@ -111,12 +130,7 @@ function driftExact(dt: Float64Array, dE: Float64Array, n: number, period: numbe
   let out = 0;
   for (let i = 0; i < n; i++) {
     const e = dE[i];
-    const eps = e * invEs;
-    const w = eps * (2 + eps);
-    const u = w * invB2;
-    const delta = u / (1 + Math.sqrt(1 + u));
-    const path = delta * (a0 + delta * (a1 + delta * a2));
-    const t = dt[i] + period * (((1 + eps) * path - (w * invB2G2) / (2 + eps + delta)) / (1 + delta));
+    const t = dt[i] + period * exactRelative(e, invEs, invB2, invB2G2, a0, a1, a2);
     dt[i] = t;
     if (!(Math.abs(t) <= dtMax && e <= hi && e >= lo)) out++;
   }
@@ -154,12 +168,7 @@ function kd1Exact(dt: Float64Array, dE: Float64Array, n: number, sin: Sine, a0: 
   for (let i = 0; i < n; i++) {
     let t = dt[i];
     const e = dE[i] + (a0 * sin(p0 + w0 * t) - sync);
-    const eps = e * invEs;
-    const w = eps * (2 + eps);
-    const u = w * invB2;
-    const delta = u / (1 + Math.sqrt(1 + u));
-    const path = delta * (al0 + delta * (al1 + delta * al2));
-    t = t + period * (((1 + eps) * path - (w * invB2G2) / (2 + eps + delta)) / (1 + delta));
+    t = t + period * exactRelative(e, invEs, invB2, invB2G2, al0, al1, al2);
     dE[i] = e;
     dt[i] = t;
     if (!(Math.abs(t) <= dtMax && e <= hi && e >= lo)) out++;

@@ -33,7 +33,7 @@ export const PI_HI = Math.round(Math.PI * 2 ** 30) / 2 ** 30;
 /** π − PI_HI: the rest of Math.PI plus π − Math.PI = 1.2246467991473532e-16 (the double nearest the tail of π). */
 export const PI_LO = Math.PI - PI_HI + 1.2246467991473532e-16;
 /** 1.5·2^52: adding and subtracting it rounds to the nearest integer, ties to even, for |y| < 2^51 (as f64.nearest). */
-const ROUND_MAGIC = 6755399441055744;
+export const ROUND_MAGIC = 6755399441055744;
 
 /** Polynomial sine; bit-identical to the WebAssembly kernels' sine for |x| < 2^51·π. */
 export function sinPoly(x: number): number {

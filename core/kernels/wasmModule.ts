@@ -10,17 +10,35 @@
 //   kd_linear_<k>, kd_exact_<k>   fused kick + drift, returns the number outside the limits
 // Pairs [2j, 2j+1] run through v128 loads/stores; an odd last particle goes through the same code with
 // v128.load64_zero / v128.store64_lane, so the particle at index n (a lost one) is never touched.
-import { INV_PI, PI_HI, PI_LO, SIN_COEFFS } from './sine.ts';
+import { INV_PI, PI_HI, PI_LO, ROUND_MAGIC, SIN_COEFFS } from './sine.ts';
 
-/** Byte offsets (from 0) of the parameter block, all f64. A, W, PHI hold MAX_RF = 4 entries each. */
+/**
+ * Byte offsets (from 0) of the parameter block, all f64. A, W, PHI hold MAX_RF = 4 entries each; ONE … C9 are
+ * constants written once by the loader (writeConstants). The kernels read every parameter and constant in
+ * the loop with v128.load64_splat (one movddup from L1), which keeps the register allocator's live set small.
+ */
 export const PARAM = {
   A: 0, W: 32, PHI: 64, SYNC: 96, SLIP: 104, PERIOD: 112, INV_ES: 120, INV_B2: 128, INV_B2G2: 136,
   AL0: 144, AL1: 152, AL2: 160, DT_MAX: 168, DE_MIN: 176, DE_MAX: 184,
+  ONE: 192, TWO: 200, MAGIC: 208, INV_PI: 216, PI_HI: 224, PI_LO: 232, C: 240, // C: 5 coefficients
+  ZERO: 280, ZERO_I32: 440, // an i32 0 read at entry as the base address of the block (a constant base made V8 spill addresses)
 } as const;
 /** Two scratch particles (dt at SCRATCH, dE at SCRATCH + 16) used by syncGain. */
-export const SCRATCH = 192;
+export const SCRATCH = 448;
 /** First byte available to particle columns. */
-export const HEAP_BASE = 256;
+export const HEAP_BASE = 512;
+
+/** Writes the constants of the parameter block into f64 view `p` of the memory (from byte 0). */
+export function writeConstants(p: Float64Array): void {
+  p[PARAM.ZERO / 8] = 0;
+  p[PARAM.ONE / 8] = 1;
+  p[PARAM.TWO / 8] = 2;
+  p[PARAM.MAGIC / 8] = ROUND_MAGIC;
+  p[PARAM.INV_PI / 8] = INV_PI;
+  p[PARAM.PI_HI / 8] = PI_HI;
+  p[PARAM.PI_LO / 8] = PI_LO;
+  SIN_COEFFS.forEach((c, j) => (p[PARAM.C / 8 + j] = c));
+}
 
 export type DriftKind = 'none' | 'linear' | 'exact';
 
@@ -53,10 +71,6 @@ function sleb(v: number): Code {
   }
 }
 
-function f64Bytes(x: number): Code {
-  return [...new Uint8Array(new Float64Array([x]).buffer)];
-}
-
 const str = (s: string): Code => [...uleb(s.length), ...[...s].map((ch) => ch.charCodeAt(0))];
 const vec = (items: Code[]): Code => [...uleb(items.length), ...items.flat()];
 const section = (id: number, body: Code): Code => [id, ...uleb(body.length), ...body];
@@ -70,11 +84,13 @@ const i32c = (v: number): Code => [0x41, ...sleb(v)];
 const bin = (op: Code) => (a: Code, b: Code): Code => [...a, ...b, ...op];
 const un = (op: Code) => (a: Code): Code => [...a, ...op];
 const f64x2 = {
-  splat: un(simd(0x14)), abs: un(simd(0xec)), sqrt: un(simd(0xef)), nearest: un(simd(0x94)),
+  max: bin(simd(0xf5)), abs: un(simd(0xec)), sqrt: un(simd(0xef)), nearest: un(simd(0x94)),
   add: bin(simd(0xf0)), sub: bin(simd(0xf1)), mul: bin(simd(0xf2)), div: bin(simd(0xf3)),
   le: bin(simd(0x4b)), ge: bin(simd(0x4c)),
 };
 const v128and = bin(simd(0x4e));
+const v128xor = bin(simd(0x51));
+const i64x2shl = (a: Code, bits: number): Code => [...a, ...i32c(bits), ...simd(0xcb)];
 const i64x2sub = bin(simd(0xd1));
 const i64x2lane = (a: Code, lane: number): Code => [...a, ...simd(0x1d), lane];
 const i32 = { add: bin([0x6a]), sub: bin([0x6b]), and: bin([0x71]), shl: bin([0x74]), ltu: bin([0x49]), wrapI64: un([0xa7]) };
@@ -82,71 +98,68 @@ const v128load = (addr: Code): Code => [...addr, ...simd(0x00), 4, 0];
 const v128store = (addr: Code, v: Code): Code => [...addr, ...v, ...simd(0x0b), 4, 0];
 const load64zero = (addr: Code): Code => [...addr, ...simd(0x5d), 3, 0];
 const store64lane0 = (addr: Code, v: Code): Code => [...addr, ...v, ...simd(0x5b), 3, 0, 0];
-const splatParam = (offset: number): Code => f64x2.splat([...i32c(0), 0x2b, 3, ...uleb(offset)]); // f64.load
-const splatConst = (x: number): Code => f64x2.splat([0x44, ...f64Bytes(x)]);
 
 // One kernel function. Locals: params 0..2, then i32 locals, then v128 locals (declared in that order).
 function kernelBody(rf: number, drift: DriftKind): Code {
   const DT = 0, DE = 1, N = 2;
   let next = 3;
-  const PT = next++, PE = next++, PEND = next++, TAIL = next++; // i32
+  const PT = next++, PE = next++, PEND = next++, TAIL = next++, BASE = next++; // i32
   const nI32 = next - 3;
   const firstV = next;
   const v = () => next++;
-  const T = v(), E = v(), X = v(), K = v(), H = v(), R = v(), R2 = v(), ACC = v(), MASK = v(), CNT = v();
-  const ONE = v(), TWO = v(), HALF = v(), INVPI = v(), PIHI = v(), PILO = v();
-  const C = SIN_COEFFS.map(() => v());
-  const A = Array.from({ length: rf }, v), W = Array.from({ length: rf }, v), P = Array.from({ length: rf }, v);
-  const SYNC = v(), SLIP = v(), PERIOD = v(), INVES = v(), INVB2 = v(), INVB2G2 = v(), AL0 = v(), AL1 = v(), AL2 = v();
-  const DTMAX = v(), DEMIN = v(), DEMAX = v(), EPS = v(), WW = v(), DELTA = v();
+  const T = v(), E = v(), X = v(), K = v(), KB = v(), R = v(), R2 = v(), ACC = v(), MASK = v(), CNT = v();
+  const EPS = v(), WW = v(), DELTA = v();
   const nV128 = next - firstV;
   const { add, sub, mul, div } = f64x2;
   const g = get;
-
-  const setup: Code[] = [
-    set(ONE, splatConst(1)), set(TWO, splatConst(2)), set(HALF, splatConst(0.5)),
-    set(INVPI, splatConst(INV_PI)), set(PIHI, splatConst(PI_HI)), set(PILO, splatConst(PI_LO)),
-    ...SIN_COEFFS.map((c, j) => set(C[j], splatConst(c))),
-  ];
-  for (let k = 0; k < rf; k++)
-    setup.push(set(A[k], splatParam(PARAM.A + 8 * k)), set(W[k], splatParam(PARAM.W + 8 * k)), set(P[k], splatParam(PARAM.PHI + 8 * k)));
-  if (rf > 0) setup.push(set(SYNC, splatParam(PARAM.SYNC)));
-  if (drift === 'linear') setup.push(set(SLIP, splatParam(PARAM.SLIP)));
-  if (drift === 'exact')
-    for (const [l, o] of [[PERIOD, PARAM.PERIOD], [INVES, PARAM.INV_ES], [INVB2, PARAM.INV_B2], [INVB2G2, PARAM.INV_B2G2], [AL0, PARAM.AL0], [AL1, PARAM.AL1], [AL2, PARAM.AL2]])
-      setup.push(set(l, splatParam(o)));
-  if (drift !== 'none') setup.push(set(DTMAX, splatParam(PARAM.DT_MAX)), set(DEMIN, splatParam(PARAM.DE_MIN)), set(DEMAX, splatParam(PARAM.DE_MAX)));
+  const P = (offset: number): Code => [...get(BASE), ...simd(0x0a), 3, ...uleb(offset)]; // v128.load64_splat
+  const ZERO = P(PARAM.ZERO), ONE = P(PARAM.ONE), TWO = P(PARAM.TWO), MAGIC = P(PARAM.MAGIC), INVPI = P(PARAM.INV_PI), PIHI = P(PARAM.PI_HI), PILO = P(PARAM.PI_LO);
+  const C = SIN_COEFFS.map((_, j) => P(PARAM.C + 8 * j));
+  const A = (k: number) => P(PARAM.A + 8 * k), W = (k: number) => P(PARAM.W + 8 * k), PH = (k: number) => P(PARAM.PHI + 8 * k);
+  const SYNC = P(PARAM.SYNC), SLIP = P(PARAM.SLIP), PERIOD = P(PARAM.PERIOD), INVES = P(PARAM.INV_ES), INVB2 = P(PARAM.INV_B2);
+  const INVB2G2 = P(PARAM.INV_B2G2), AL0 = P(PARAM.AL0), AL1 = P(PARAM.AL1), AL2 = P(PARAM.AL2);
+  const DTMAX = P(PARAM.DT_MAX), DEMIN = P(PARAM.DE_MIN), DEMAX = P(PARAM.DE_MAX);
+  const setup: Code[] = [set(BASE, [...i32c(0), 0x28, 2, ...uleb(PARAM.ZERO_I32)])]; // i32.load
 
   // The map for the two particles in T, E (as sinPoly and js.ts, operation for operation).
   const body: Code[] = [];
   for (let k = 0; k < rf; k++) {
     body.push(
-      set(X, add(g(P[k]), mul(g(W[k]), g(T)))), // x = φ_k + w_k·dt
-      set(K, f64x2.nearest(mul(g(X), g(INVPI)))), // k = nearest(x/π)
-      set(R, sub(sub(g(X), mul(g(K), g(PIHI))), mul(g(K), g(PILO)))), // r = x − k·P1 − k·P2
-      set(H, f64x2.nearest(mul(g(K), g(HALF)))),
-      set(R, mul(g(R), sub(g(ONE), mul(g(TWO), f64x2.abs(sub(g(K), add(g(H), g(H)))))))), // r·(−1)^k
+      set(X, add(PH(k), mul(W(k), g(T)))), // x = φ_k + w_k·dt
+      // x/π + 1.5·2^52 rounds x/π to the nearest integer k (ties to even) and leaves k in the low mantissa bits
+      set(KB, add(mul(g(X), INVPI), MAGIC)),
+      set(K, sub(g(KB), MAGIC)),
+      set(R, sub(sub(g(X), mul(g(K), PIHI)), mul(g(K), PILO))), // r = x − k·P1 − k·P2
+      set(R, v128xor(g(R), i64x2shl(g(KB), 63))), // r·(−1)^k: the parity bit of k moved to the sign bit
       set(R2, mul(g(R), g(R))),
     );
-    let poly = g(C[C.length - 1]);
-    for (let j = C.length - 2; j >= 0; j--) poly = add(g(C[j]), mul(g(R2), poly));
-    const term = mul(g(A[k]), mul(g(R), poly));
+    let poly = C[C.length - 1];
+    for (let j = C.length - 2; j >= 0; j--) poly = add(C[j], mul(g(R2), poly));
+    const term = mul(A(k), mul(g(R), poly));
     body.push(set(ACC, k === 0 ? term : add(g(ACC), term)));
   }
-  if (rf > 0) body.push(set(E, add(g(E), sub(g(ACC), g(SYNC)))));
-  if (drift === 'linear') body.push(set(T, add(g(T), mul(g(SLIP), g(E)))));
+  if (rf > 0) body.push(set(E, add(g(E), sub(g(ACC), SYNC))));
+  if (drift === 'linear') body.push(set(T, add(g(T), mul(SLIP, g(E)))));
   if (drift === 'exact') {
+    // ε, w = ε(2+ε), u = w/β², s = √max(1+u, 0), D = 1+s, B = (2+ε)D + u, Q = α0D² + u(α1D + α2u),
+    // dt += period·((1+ε)·u·Q·B − (w/(β²γ²))·D⁴)/(s·D³·B)   (one division: see js.ts)
+    const S = K, D = KB, D2 = R, B = R2, Q = ACC;
     body.push(
-      set(EPS, mul(g(E), g(INVES))),
-      set(WW, mul(g(EPS), add(g(TWO), g(EPS)))),
-      set(X, mul(g(WW), g(INVB2))), // u
-      set(DELTA, div(g(X), add(g(ONE), f64x2.sqrt(add(g(ONE), g(X)))))),
-      set(X, mul(g(DELTA), add(g(AL0), mul(g(DELTA), add(g(AL1), mul(g(DELTA), g(AL2))))))), // path
-      set(X, div(sub(mul(add(g(ONE), g(EPS)), g(X)), div(mul(g(WW), g(INVB2G2)), add(add(g(TWO), g(EPS)), g(DELTA)))), add(g(ONE), g(DELTA)))),
-      set(T, add(g(T), mul(g(PERIOD), g(X)))),
+      set(EPS, mul(g(E), INVES)),
+      set(WW, mul(g(EPS), add(TWO, g(EPS)))),
+      set(X, mul(g(WW), INVB2)), // u
+      set(S, f64x2.sqrt(f64x2.max(add(ONE, g(X)), ZERO))),
+      set(D, add(ONE, g(S))),
+      set(D2, mul(g(D), g(D))),
+      set(B, add(mul(add(TWO, g(EPS)), g(D)), g(X))),
+      set(Q, add(mul(AL0, g(D2)), mul(g(X), add(mul(AL1, g(D)), mul(AL2, g(X)))))),
+      set(DELTA, div(
+        sub(mul(mul(mul(add(ONE, g(EPS)), g(X)), g(Q)), g(B)), mul(mul(g(WW), INVB2G2), mul(g(D2), g(D2)))),
+        mul(mul(g(S), mul(g(D2), g(D))), g(B)))),
+      set(T, add(g(T), mul(PERIOD, g(DELTA)))),
     );
   }
-  if (drift !== 'none') body.push(set(MASK, v128and(v128and(f64x2.le(f64x2.abs(g(T)), g(DTMAX)), f64x2.le(g(E), g(DEMAX))), f64x2.ge(g(E), g(DEMIN)))));
+  if (drift !== 'none') body.push(set(MASK, v128and(v128and(f64x2.le(f64x2.abs(g(T)), DTMAX), f64x2.le(g(E), DEMAX)), f64x2.ge(g(E), DEMIN))));
 
   const counting = drift !== 'none';
   const code: Code[] = [
