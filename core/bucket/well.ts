@@ -4,6 +4,7 @@
 // of η and U(φs) = 0. Along increasing φ, U' = −sgn(η)·F/(β²E).
 import type { MachineState } from '../machine.ts';
 import { maxHarmonicRatio, rfGain, type RfWave } from '../rf.ts';
+import { bisectRoot } from '../synchronous.ts';
 
 // Sampling density for root and level searches: ≥2000 per main period, ≥50 per period of the highest harmonic
 // (PHYSICS.md §8, step 1).
@@ -91,7 +92,7 @@ export function scanExtrema(q: Well, a: number, b: number, n = Math.ceil((b - a)
     const x = a + i * h;
     const f = rfGain(q.w, x);
     if (fPrev < 0 !== f < 0) {
-      const phi = refineRoot(q.w, xPrev, fPrev, x);
+      const phi = bisectRoot(q.w, xPrev, x, fPrev);
       // F rising means U' goes from −sgn to +sgn: a minimum below transition (sgn < 0), a maximum above.
       const rising = fPrev < 0;
       out.push({ phi, U: wellU(q, phi), kind: rising === q.sgn < 0 ? 'min' : 'max' });
@@ -108,18 +109,4 @@ export function refineStable(q: Well, phi0: number): number {
   for (const e of scanExtrema(q, phi0 - 2 * q.step, phi0 + 2 * q.step, 64))
     if (e.kind === 'min' && (best === phi0 || Math.abs(e.phi - phi0) < Math.abs(best - phi0))) best = e.phi;
   return best;
-}
-
-// Bisection of F on [a, b] from the sampled end values, so the bracket is exactly the one that changed sign.
-function refineRoot(w: RfWave, a: number, fa: number, b: number): number {
-  for (let i = 0; i < 200 && b - a > 1e-15 * (1 + Math.abs(a)); i++) {
-    const m = 0.5 * (a + b);
-    const fm = rfGain(w, m);
-    if (fm === 0) return m;
-    if (fa < 0 === fm < 0) {
-      a = m;
-      fa = fm;
-    } else b = m;
-  }
-  return 0.5 * (a + b);
 }
