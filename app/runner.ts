@@ -108,7 +108,9 @@ function call(fn: () => Promise<RunFrame>, fresh: boolean, what: string): void {
   fn().then(
     (f) => {
       busy = false;
+      const t = performance.now();
       accept(f, fresh);
+      performance.measure('accept frame', { start: t }); // user timing (store update and React render)
     },
     (e) => {
       busy = false;

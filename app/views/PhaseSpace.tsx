@@ -33,8 +33,8 @@ export function PhaseSpace() {
   const ref = useRef<HTMLDivElement>(null);
   const layout = useRef<Partial<Layout>>({
     ...BASE_LAYOUT,
-    xaxis: { title: { text: 'time offset dt [ns] (late →)' }, zeroline: false, automargin: true },
-    yaxis: { title: { text: 'energy offset dE [MeV]' }, zeroline: true, zerolinecolor: '#d0d0d0', automargin: true },
+    xaxis: { title: { text: 'time offset dt [ns] (late →)' }, zeroline: false },
+    yaxis: { title: { text: 'energy offset dE [MeV]' }, zeroline: true, zerolinecolor: '#d0d0d0' },
     datarevision: 0,
   });
   const valid = useApp((s) => s.valid);
@@ -54,9 +54,9 @@ export function PhaseSpace() {
       const v = frame.view;
       const dx = (v.dtMax - v.dtMin) / v.nx, dy = (v.dEMax - v.dEMin) / v.ny;
       data.push({
-        type: 'heatmap', z: heatmapZ(frame.hist, v.nx, v.ny),
+        type: 'heatmap', z: [] as (number | null)[][], // filled when drawn (see below)
         x0: (v.dtMin + dx / 2) * 1e9, dx: dx * 1e9, y0: (v.dEMin + dy / 2) * k, dy: dy * k,
-        colorscale: DENSITY_SCALE, showscale: false, hoverinfo: 'skip', zsmooth: false, name: 'density',
+        colorscale: DENSITY_SCALE, showscale: false, hoverinfo: 'skip', zsmooth: 'fast', name: 'density',
       } as Data);
     }
     if (bv.sep) {
@@ -70,7 +70,11 @@ export function PhaseSpace() {
     L.yaxis!.range = [win.dEMin * k, win.dEMax * k];
     (L.yaxis!.title as { text: string }).text = `energy offset dE [${eu.label}]`;
     L.datarevision = (L.datarevision as number) + 1;
-    scheduleDraw('phase', () => ref.current && Plotly.react(ref.current, data, L, CONFIG));
+    scheduleDraw('phase', () => {
+      // Convert the histogram only for frames that are actually drawn.
+      if (frame && !frame.points) (data[0] as { z: unknown }).z = heatmapZ(frame.hist, frame.view.nx, frame.view.ny);
+      if (ref.current) Plotly.react(ref.current, data, L, CONFIG);
+    });
   }, [valid, frame]);
   const bucket = useApp((s) => bucketAt(s.valid, shownEnergy(s)));
   return (

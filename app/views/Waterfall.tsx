@@ -8,6 +8,9 @@ import { DENSITY_SCALE } from './PhaseSpace.tsx';
 import { binCentresNs } from './Profile.tsx';
 import { scheduleDraw } from './schedule.ts';
 
+// The history changes slowly: redraw at most this often while tracking [ms].
+const MIN_GAP_MS = 400;
+
 /** The profile-history panel. */
 export function Waterfall() {
   const ref = useRef<HTMLDivElement>(null);
@@ -22,15 +25,19 @@ export function Waterfall() {
   useEffect(() => {
     if (!frame || profiles.length === 0) return;
     const v = frame.view;
-    const n = profiles[0].profile.length;
-    const z = profiles.map((p) => Array.from(p.profile, (x) => x * 1e-9));
-    const data: Data[] = [{
-      type: 'heatmap', z, x: Array.from(binCentresNs(v.dtMin, v.dtMax, n)), y: profiles.map((p) => p.turn),
-      colorscale: DENSITY_SCALE, showscale: false, zsmooth: false, hovertemplate: 'turn %{y}<br>dt %{x:.3g} ns<br>λ %{z:.3g}/ns<extra></extra>',
-    } as Data];
     const L = layout.current;
     L.datarevision = (L.datarevision as number) + 1;
-    scheduleDraw('waterfall', () => ref.current && Plotly.react(ref.current, data, L, CONFIG));
+    // Built when drawn, not per frame: the history is redrawn only a few times a second.
+    const draw = () => {
+      const n = profiles[0].profile.length;
+      const data: Data[] = [{
+        type: 'heatmap', z: profiles.map((p) => Array.from(p.profile, (x) => x * 1e-9)), x: Array.from(binCentresNs(v.dtMin, v.dtMax, n)),
+        y: profiles.map((p) => p.turn), colorscale: DENSITY_SCALE, showscale: false, zsmooth: 'fast',
+        hovertemplate: 'turn %{y}<br>dt %{x:.3g} ns<br>λ %{z:.3g}/ns<extra></extra>',
+      } as Data];
+      if (ref.current) Plotly.react(ref.current, data, L, CONFIG);
+    };
+    scheduleDraw('waterfall', draw, MIN_GAP_MS);
   }, [profiles, frame]);
   return <Panel id="waterfall" title="Profile history" plotRef={ref} />;
 }

@@ -1,0 +1,177 @@
+// Browser tests of the built app (dist/): served from localhost, driven in Chromium. Prints one line
+// "e2e: N passed, N failed" at the end and exits non-zero on any failure.
+import { mkdirSync, readFileSync } from 'node:fs';
+import { deflateSync, strToU8 } from 'fflate';
+import { serve } from './server.mjs';
+import { ok, runAll } from './harness.mjs';
+import { openApp, stepTo, summary, traces, waitReady } from './page.mjs';
+
+const ROOT = new URL('../../', import.meta.url).pathname;
+const ARTIFACTS = ROOT + 'test-artifacts/';
+mkdirSync(ARTIFACTS, { recursive: true });
+
+const b64url = (u8) => Buffer.from(u8).toString('base64').replace(/\+/g, '-').replace(/\//g, '_').replace(/=+$/, '');
+const linkFor = (doc) => '#s1=' + b64url(deflateSync(strToU8(JSON.stringify(doc))));
+const demo = JSON.parse(readFileSync(ROOT + 'examples/alder-booster.json', 'utf8'));
+
+const tests = [
+  {
+    name: 'default setup shows a separatrix and a bunch',
+    async fn({ ctx, url }) {
+      const page = await openApp(ctx, url);
+      const t = await traces(page, 'phase');
+      const sep = t.find((x) => x.name === 'separatrix');
+      const dens = t.find((x) => x.name === 'density');
+      ok(sep && sep.n > 100, `separatrix has ${sep?.n} points`);
+      ok(dens && dens.zsum > 0.9 * demo.beam.particles, `density image holds ${dens?.zsum} of ${demo.beam.particles} particles`);
+      ok(!(await page.content()).includes('WebGL is not supported'), 'a plot says WebGL is not supported');
+      ok((await page.textContent('#caution')).includes('design exploration'), 'caution sentence missing');
+      ok((await page.textContent('#setup-title')).toLowerCase().includes('fictional'), 'fictional label missing');
+    },
+  },
+  {
+    name: 'ramp rate changes φs, separatrix and bucket area; a bad value is marked and the last valid setup keeps running',
+    async fn({ ctx, url }) {
+      const page = await openApp(ctx, url);
+      const area0 = await summary(page, 'area'), phis0 = await summary(page, 'phis');
+      const sep0 = (await traces(page, 'phase')).find((x) => x.name === 'separatrix');
+      await page.fill('#f-energy-ramp-value', '4');
+      await page.waitForFunction((a) => Number(document.getElementById('sum-area').dataset.value) !== a, area0);
+      const area1 = await summary(page, 'area'), phis1 = await summary(page, 'phis');
+      ok(phis1 > phis0 * 1.5, `φs ${phis0}° → ${phis1}° for twice the ramp rate`);
+      ok(area1 < area0, `bucket area ${area0} → ${area1} eV·s should shrink on a faster ramp`);
+      await page.waitForFunction((y0) => {
+        const s = document.getElementById('plot-phase').data.find((t) => t.name === 'separatrix');
+        return s && Math.max(...s.y) < y0;
+      }, Math.max(...sep0.y));
+      await page.fill('#f-energy-ramp-value', '5000');
+      const err = await page.waitForSelector('#f-energy-ramp-value-error');
+      const msg = await err.textContent();
+      ok(/energy\.ramp\.value = 5000: must be in \[-1000, 1000\] T\/s/.test(msg), `error message: ${msg}`);
+      ok((await summary(page, 'area')) === area1, 'the bucket should stay that of the last valid setup');
+      ok((await page.inputValue('#f-energy-ramp-value')) === '5000', 'the typed value must stay in the field');
+    },
+  },
+  {
+    name: 'running 200 turns updates the turn counter and the evolution plots',
+    async fn({ ctx, url }) {
+      const page = await openApp(ctx, url);
+      await stepTo(page, 200, 200);
+      const ids = ['rms-length', 'rms-spread', 'emittance', 'centroid-dt', 'centroid-de', 'inside'];
+      await page.waitForFunction((ids) => ids.every((id) => {
+        const d = document.getElementById('plot-evo-' + id)?.data?.[0];
+        return d && d.x.length === 21 && d.x[20] === 200;
+      }), ids, { timeout: 5000 });
+      for (const id of ids) {
+        const [s] = await traces(page, 'evo-' + id);
+        ok(s.y.every(Number.isFinite), `${id}: values are finite`);
+      }
+      const [len] = await traces(page, 'evo-rms-length');
+      ok(new Set(len.y).size > 1, 'the rms length should change over 200 turns');
+      ok((await page.textContent('#cycle-time')) !== '0 ns', 'cycle time should advance');
+      await page.waitForTimeout(300);
+      await page.screenshot({ path: ARTIFACTS + 'main-screen.png' });
+    },
+  },
+  {
+    name: 'a copied link restores the fields and gives the same rms length after the same turns',
+    async fn({ ctx, url }) {
+      const a = await openApp(ctx, url);
+      await a.fill('#f-rf-systems-0-voltage', '24');
+      await a.fill('#f-beam-seed', '42');
+      await a.fill('#f-beam-particles', '20000');
+      await waitReady(a);
+      await stepTo(a, 150, 150);
+      const rmsA = await summary(a, 'rms-length');
+      await a.click('#copy-link');
+      const link = await a.inputValue('#share-link');
+      ok(link.includes('#s1='), `link: ${link.slice(0, 80)}`);
+      const b = await openApp(ctx, link);
+      for (const id of ['#f-rf-systems-0-voltage', '#f-beam-seed', '#f-beam-particles', '#f-energy-ramp-value', '#f-ring-circumference'])
+        ok((await b.inputValue(id)) === (await a.inputValue(id)), `${id}: ${await b.inputValue(id)} vs ${await a.inputValue(id)}`);
+      await stepTo(b, 150, 150);
+      const rmsB = await summary(b, 'rms-length');
+      ok(Number.isFinite(rmsA) && rmsA === rmsB, `rms length after 150 turns: ${rmsA} vs ${rmsB}`);
+    },
+  },
+  {
+    name: 'a corrupted or invalid link shows what was wrong and a working default page',
+    async fn({ ctx, url }) {
+      const page = await ctx.newPage();
+      await page.goto(url + '#s1=not-really-deflate-data');
+      await waitReady(page);
+      ok((await page.textContent('#notice')).includes('could not be opened'), 'notice for a corrupt link');
+      const bad = structuredClone(demo);
+      bad.rf.systems[0].voltage = -5;
+      await page.goto(url + 'index.html' + linkFor(bad));
+      await page.waitForFunction(() => document.getElementById('notice')?.textContent.includes('rf.systems[0].voltage'));
+      const text = await page.textContent('#notice');
+      ok(/rf\.systems\[0\]\.voltage = -5: must be in \[0, 1e9\] V/.test(text), `notice: ${text}`);
+      await waitReady(page);
+      await stepTo(page, 20, 20);
+    },
+  },
+  {
+    name: 'no long main-thread task while 1e6 particles are tracked; no request leaves localhost',
+    async fn({ ctx, url, probe }) {
+      await ctx.addInitScript(() => {
+        window.__long = [];
+        new PerformanceObserver((l) => { for (const e of l.getEntries()) window.__long.push(e.duration); }).observe({ type: 'longtask', buffered: true });
+      });
+      const page = await openApp(ctx, url);
+      await page.fill('#f-beam-particles', '1000000');
+      await page.waitForFunction(() => document.getElementById('status').textContent === 'generating the beam…', null, { timeout: 5000 }).catch(() => {});
+      await waitReady(page, 40000);
+      ok((await traces(page, 'phase')).find((t) => t.name === 'density').zsum > 9e5, 'density image should hold ~1e6 particles');
+      await page.evaluate(() => (window.__long = []));
+      await page.keyboard.press('Escape');
+      await page.click('#run');
+      const t0 = Date.now();
+      await page.waitForTimeout(5000);
+      const turn = Number(await page.textContent('#turn'));
+      await page.click('#run');
+      const long = await page.evaluate(() => window.__long);
+      const max = Math.max(0, ...long);
+      console.log(`     1e6 particles: ${turn} turns in ${Date.now() - t0} ms; long tasks: ${long.length}, longest ${max.toFixed(0)} ms; requests ${probe.state.requests}`);
+      ok(turn >= 5, `only ${turn} turns tracked in 5 s`);
+      ok(max <= 50, `long tasks while tracking: ${long.map((d) => d.toFixed(0)).join(', ')} ms`);
+    },
+  },
+  {
+    name: 'after one visit the app opens offline, also from a sub-path',
+    async fn({ ctx, probe }) {
+      const sub = await serve(ROOT + 'dist', '/some/sub/path/');
+      try {
+        const page = await openApp(ctx, sub.url);
+        await page.evaluate(async () => {
+          await navigator.serviceWorker.ready;
+          const files = (await (await fetch('precache-manifest.json')).json()).files.length;
+          for (let i = 0; i < 100; i++) {
+            const keys = await caches.keys();
+            const n = keys.length ? (await (await caches.open(keys[0])).keys()).length : 0;
+            if (n >= files) return;
+            await new Promise((r) => setTimeout(r, 100));
+          }
+          throw new Error('the offline cache was not filled');
+        });
+        await sub.close();
+        probe.state.allowFailures = true;
+        await ctx.setOffline(true);
+        await page.reload();
+        await waitReady(page);
+        await stepTo(page, 10, 10);
+      } finally {
+        await sub.close().catch(() => {});
+      }
+    },
+  },
+];
+
+const server = await serve(ROOT + 'dist');
+const origin = new URL(server.url).origin;
+const t0 = Date.now();
+const { passed, failed } = await runAll(tests, { url: server.url, origin });
+await server.close();
+console.log(`(${((Date.now() - t0) / 1000).toFixed(1)} s)`);
+console.log(`e2e: ${passed} passed, ${failed} failed`);
+process.exit(failed ? 1 : 0);
