@@ -9,7 +9,7 @@
 // Columns not allocated by this kernel are rejected with an error (the kernel cannot reach other memory).
 import { checkColumns, checkKick, MAX_RF, type Columns, type DriftParams, type KickParams, type Limits, type TurnKernel } from './types.ts';
 import { exactConstants } from './js.ts';
-import { buildKernelModule, HEAP_BASE, kernelName, PARAM, SCRATCH, writeConstants } from './wasmModule.ts';
+import { buildKernelModule, HEAP_BASE, kernelName, PARAM, SCRATCH } from './wasmModule.ts';
 
 // The few WebAssembly declarations we need (core compiles with lib ES2022, which has none).
 export interface WasmMemory {
@@ -77,7 +77,6 @@ export function createWasmKernel(options: { initialParticles?: number } = {}): T
 
   let buffer = memory.buffer;
   let params = new Float64Array(buffer, 0, HEAP_BASE / 8);
-  writeConstants(params);
   const live = new Map<Columns, Block>();
   const free: Block[] = []; // sorted by offset, coalesced
   let top = HEAP_BASE;

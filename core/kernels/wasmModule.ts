@@ -13,32 +13,20 @@
 import { INV_PI, PI_HI, PI_LO, ROUND_MAGIC, SIN_COEFFS } from './sine.ts';
 
 /**
- * Byte offsets (from 0) of the parameter block, all f64. A, W, PHI hold MAX_RF = 4 entries each; ONE … C9 are
- * constants written once by the loader (writeConstants). The kernels read every parameter and constant in
- * the loop with v128.load64_splat (one movddup from L1), which keeps the register allocator's live set small.
+ * Byte offsets (from 0) of the parameter block, all f64. A, W, PHI hold MAX_RF = 4 entries each. The kernels
+ * read every parameter in the loop with v128.load64_splat (one movddup from L1), and write the numeric
+ * constants as v128.const, which V8 hoists into registers: this keeps the live set small (parameters splatted
+ * into locals before the loop were spilled and reloaded through extra address registers).
  */
 export const PARAM = {
   A: 0, W: 32, PHI: 64, SYNC: 96, SLIP: 104, PERIOD: 112, INV_ES: 120, INV_B2: 128, INV_B2G2: 136,
   AL0: 144, AL1: 152, AL2: 160, DT_MAX: 168, DE_MIN: 176, DE_MAX: 184,
-  ONE: 192, TWO: 200, MAGIC: 208, INV_PI: 216, PI_HI: 224, PI_LO: 232, C: 240, // C: 5 coefficients
-  ZERO: 280, ZERO_I32: 440, // an i32 0 read at entry as the base address of the block (a constant base made V8 spill addresses)
+  ZERO_I32: 440, // an i32 0 read at entry as the base address of the block
 } as const;
 /** Two scratch particles (dt at SCRATCH, dE at SCRATCH + 16) used by syncGain. */
 export const SCRATCH = 448;
 /** First byte available to particle columns. */
 export const HEAP_BASE = 512;
-
-/** Writes the constants of the parameter block into f64 view `p` of the memory (from byte 0). */
-export function writeConstants(p: Float64Array): void {
-  p[PARAM.ZERO / 8] = 0;
-  p[PARAM.ONE / 8] = 1;
-  p[PARAM.TWO / 8] = 2;
-  p[PARAM.MAGIC / 8] = ROUND_MAGIC;
-  p[PARAM.INV_PI / 8] = INV_PI;
-  p[PARAM.PI_HI / 8] = PI_HI;
-  p[PARAM.PI_LO / 8] = PI_LO;
-  SIN_COEFFS.forEach((c, j) => (p[PARAM.C / 8 + j] = c));
-}
 
 export type DriftKind = 'none' | 'linear' | 'exact';
 
@@ -71,6 +59,8 @@ function sleb(v: number): Code {
   }
 }
 
+/** v128.const holding x in both lanes (little-endian f64 bytes). */
+const splat = (x: number): Code => [...simd(0x0c), ...new Uint8Array(new Float64Array([x, x]).buffer)];
 const str = (s: string): Code => [...uleb(s.length), ...[...s].map((ch) => ch.charCodeAt(0))];
 const vec = (items: Code[]): Code => [...uleb(items.length), ...items.flat()];
 const section = (id: number, body: Code): Code => [id, ...uleb(body.length), ...body];
@@ -113,8 +103,8 @@ function kernelBody(rf: number, drift: DriftKind): Code {
   const { add, sub, mul, div } = f64x2;
   const g = get;
   const P = (offset: number): Code => [...get(BASE), ...simd(0x0a), 3, ...uleb(offset)]; // v128.load64_splat
-  const ZERO = P(PARAM.ZERO), ONE = P(PARAM.ONE), TWO = P(PARAM.TWO), MAGIC = P(PARAM.MAGIC), INVPI = P(PARAM.INV_PI), PIHI = P(PARAM.PI_HI), PILO = P(PARAM.PI_LO);
-  const C = SIN_COEFFS.map((_, j) => P(PARAM.C + 8 * j));
+  const ZERO = splat(0), ONE = splat(1), TWO = splat(2), MAGIC = splat(ROUND_MAGIC), INVPI = splat(INV_PI), PIHI = splat(PI_HI), PILO = splat(PI_LO);
+  const C = SIN_COEFFS.map(splat);
   const A = (k: number) => P(PARAM.A + 8 * k), W = (k: number) => P(PARAM.W + 8 * k), PH = (k: number) => P(PARAM.PHI + 8 * k);
   const SYNC = P(PARAM.SYNC), SLIP = P(PARAM.SLIP), PERIOD = P(PARAM.PERIOD), INVES = P(PARAM.INV_ES), INVB2 = P(PARAM.INV_B2);
   const INVB2G2 = P(PARAM.INV_B2G2), AL0 = P(PARAM.AL0), AL1 = P(PARAM.AL1), AL2 = P(PARAM.AL2);
