@@ -58,6 +58,7 @@ export function kernelModule(): object {
 interface Block {
   offset: number;
   bytes: number;
+  n: number; // particles (bytes/16 rounded up to even)
 }
 
 /**
@@ -85,13 +86,13 @@ export function createWasmKernel(options: { initialParticles?: number } = {}): T
     buffer = memory.buffer;
     params = new Float64Array(buffer, 0, HEAP_BASE / 8);
     for (const [cols, b] of live) {
-      const n = b.bytes / 16;
-      cols.dt = new Float64Array(buffer, b.offset, n);
-      cols.dE = new Float64Array(buffer, b.offset + 8 * n, n);
+      cols.dt = new Float64Array(buffer, b.offset, b.n);
+      cols.dE = new Float64Array(buffer, b.offset + b.bytes / 2, b.n);
     }
   }
 
   function take(bytes: number): number {
+    if (bytes === 0) return top;
     for (let i = 0; i < free.length; i++) {
       const b = free[i];
       if (b.bytes < bytes) continue;
@@ -174,7 +175,7 @@ export function createWasmKernel(options: { initialParticles?: number } = {}): T
       const cols: Columns = { dt: new Float64Array(buffer, offset, n), dE: new Float64Array(buffer, offset + half, n) };
       cols.dt.fill(0);
       cols.dE.fill(0);
-      live.set(cols, { offset, bytes });
+      live.set(cols, { offset, bytes, n });
       return cols;
     },
     freeColumns(cols: Columns): void {
