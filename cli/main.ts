@@ -5,11 +5,13 @@ import { formatIssue, parseSetupText } from '../core/setup/validate.ts';
 import type { Setup } from '../core/setup/schema.ts';
 import { intOption, parseCommandLine, UsageError } from './args.ts';
 import { bucketReport } from './bucketReport.ts';
+import { cycleCsv, cycleJson } from './cycle.ts';
 import { particlesCsv, trackSetup } from './track.ts';
 
 const USAGE = `usage:
   phasewell bucket <setup.json>
   phasewell track <setup.json> --turns N [--every K] [--out diagnostics.csv] [--particles final.csv]
+  phasewell cycle <setup.json> [--format json|csv] [--out file]
 Results are for design exploration; machine protection and radiation safety follow local regulations and licensed practice.`;
 
 class InputError extends Error {}
@@ -50,8 +52,17 @@ function run(argv: string[]): number {
       if (typeof a.options.particles === 'string') writeFileSync(a.options.particles, particlesCsv(tracker));
       return 0;
     }
+    case 'cycle': {
+      const setup = loadSetup(a.positional[0]);
+      const format = a.options.format ?? 'json';
+      if (format !== 'json' && format !== 'csv') throw new UsageError(`--format = ${String(format)}: must be json or csv`);
+      const text = format === 'csv' ? cycleCsv(setup) : JSON.stringify(cycleJson(setup), null, 2) + '\n';
+      if (typeof a.options.out === 'string') writeFileSync(a.options.out, text);
+      else process.stdout.write(text);
+      return 0;
+    }
     default:
-      throw new UsageError(`unknown command "${a.command}" (expected bucket or track)`);
+      throw new UsageError(`unknown command "${a.command}" (expected bucket, track or cycle)`);
   }
 }
 
