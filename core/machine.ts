@@ -3,12 +3,16 @@
 // Turn n: the synchronous particle crosses the RF with energy Es(n) and gains dEs(n) = Es(n+1) − Es(n).
 // Ramps (PHYSICS.md §4): gainPerTurn adds a fixed energy; bDot advances p·c by Z·c·ρ·Ḃ·T0 per turn;
 // momentumRate advances p·c by (d(pc)/dt)·T0 per turn.
+// Programs (core/program): table and smooth ramps give p·c(t), so turn n+1 has p·c(t_n + T0(n)); RF programs give
+// V_k(t_n) and Φ_k(t_n) on turn n; rf.slope 'timed' puts the transition jump at rf.switchTime.
 import { C_LIGHT, DEG, TWO_PI } from './constants.ts';
 import { eta0, eta1, fromKinetic, fromMomentum, fromTotal, type Compaction, type Kinematics } from './kinematics.ts';
 import { makeParticle, type Particle } from './particle.ts';
+import { energyLossPerTurn, radiationLattice, type RadiationLattice } from './radiation.ts';
 import type { RfWave } from './rf.ts';
 import type { Setup } from './setup/schema.ts';
 import { solveSyncPhase, stableSlope, type Slope } from './synchronous.ts';
+import { buildPrograms, fmtEvent, slopeSwitchMessage, type CyclePrograms, type MachineEvent } from './program/machinePrograms.ts';
 
 export interface RfSystemState {
   h: number;
@@ -41,6 +45,8 @@ export interface MachineState {
   eta1: number;
   /** Energy gained by the synchronous particle on this turn [eV]. */
   dEs: number;
+  /** Energy radiated by the synchronous particle on this turn [eV] (0 without a radiation block); the RF supplies dEs + U0. */
+  U0: number;
   /** Main harmonic number h_1. */
   h: number;
   omegaRf: number;
@@ -51,6 +57,8 @@ export interface MachineState {
   phiS: number;
   /** Why there is no stable phase, or null. */
   noBucket: string | null;
+  /** What happened so far (transition phase jump, bucket lost or regained), oldest first; grows only on such turns. */
+  events: MachineEvent[];
 }
 
 /** Compaction factors from the ring block. */
@@ -78,9 +86,13 @@ export function startKinematics(s: Setup, p: Particle): Kinematics {
 export class MachineStepper {
   readonly state: MachineState;
   private readonly setup: Setup;
+  private readonly programs: CyclePrograms;
+  private fresh = true; // no events on the first refresh
+  private readonly radiation: RadiationLattice | null;
 
   constructor(setup: Setup) {
     this.setup = setup;
+    this.radiation = radiationLattice(setup);
     const p = makeParticle(setup.particle);
     const k = startKinematics(setup, p);
     const sys = setup.rf.systems;
@@ -88,20 +100,22 @@ export class MachineStepper {
     const rf = sys.map((r) => ({ h: r.harmonic, V: r.voltage, offset: r.phase * DEG, position: r.position, phi: 0 }));
     this.state = {
       turn: 0, time: 0, particle: p, circumference: setup.ring.circumference, compaction: compactionOf(setup),
-      Es: k.E, gamma: k.gamma, beta: k.beta, pc: k.pc, T: k.T, T0: 0, f0: 0, omega0: 0, eta0: 0, eta1: 0, dEs: 0,
+      Es: k.E, gamma: k.gamma, beta: k.beta, pc: k.pc, T: k.T, T0: 0, f0: 0, omega0: 0, eta0: 0, eta1: 0, dEs: 0, U0: 0,
       h, omegaRf: 0, rf,
       wave: { ZV: rf.map((r) => p.Z * r.V), n: rf.map((r) => r.h / h), offset: rf.map((r) => r.offset), dEs: 0 },
-      slope: 'rising', phiS: NaN, noBucket: null,
+      slope: 'rising', phiS: NaN, noBucket: null, events: [],
     };
+    this.programs = buildPrograms(setup, p, k.pc);
     this.refresh();
   }
 
   /** Advance to the next turn. */
   advance(): void {
     const s = this.state;
+    const step = this.momentumStep(); // before the clock moves: programs are looked up at time + T0
     s.time += s.T0;
     s.turn += 1;
-    const k = fromMomentum(s.pc + this.momentumStep(), s.particle.mass);
+    const k = fromMomentum(s.pc + step, s.particle.mass);
     s.Es = k.E; s.gamma = k.gamma; s.beta = k.beta; s.pc = k.pc; s.T = k.T;
     this.refresh();
   }
@@ -128,6 +142,9 @@ export class MachineStepper {
         return Math.abs(s.particle.Z) * C_LIGHT * this.setup.ring.bendingRadius! * r.value * s.T0;
       case 'momentumRate':
         return r.value * s.T0;
+      case 'table':
+      case 'smooth':
+        return this.programs.pc!.at(s.time + s.T0) - s.pc;
     }
   }
 
@@ -142,13 +159,45 @@ export class MachineStepper {
     s.eta1 = eta1(s.compaction, s.gamma, s.beta);
     const next = fromMomentum(s.pc + this.momentumStep(), s.particle.mass);
     s.dEs = next.E - s.Es;
-    (s.wave as { dEs: number }).dEs = s.dEs;
+    s.U0 = this.radiation ? energyLossPerTurn(s.particle, s.Es, this.radiation) : 0;
+    (s.wave as { dEs: number }).dEs = s.dEs + s.U0; // synchronous condition ZΣV sin φ_k = ΔE_s + U0 (PHYSICS.md §4, §11)
+    this.followRfPrograms();
+    const slope0 = s.slope, phi0 = s.phiS, had = s.noBucket === null;
     const want = this.setup.rf.slope;
-    s.slope = want === 'auto' ? stableSlope(s.eta0) : want;
+    s.slope = want === 'auto' ? stableSlope(s.eta0) : want === 'timed' ? (s.time < this.setup.rf.switchTime! ? 'rising' : 'falling') : want;
     const sol = solveSyncPhase(s.wave, s.slope);
     s.phiS = sol.ok ? sol.phiS : NaN;
     s.noBucket = sol.ok ? null : sol.reason;
+    if (!this.fresh && (slope0 !== s.slope || had !== (s.noBucket === null))) this.tell(slope0, phi0, had);
+    this.fresh = false;
     for (const r of s.rf) r.phi = (r.h / s.h) * s.phiS + r.offset;
+  }
+
+  // Voltages and phase offsets from the RF programs at this turn's time, written in place.
+  private followRfPrograms(): void {
+    const s = this.state, { voltage, phase } = this.programs;
+    const ZV = s.wave.ZV as number[], off = s.wave.offset as number[];
+    for (let k = 0; k < s.rf.length; k++) {
+      const v = voltage[k], f = phase[k];
+      if (v) { s.rf[k].V = v.at(s.time); ZV[k] = s.particle.Z * s.rf[k].V; }
+      if (f) { s.rf[k].offset = f.at(s.time); off[k] = s.rf[k].offset; }
+    }
+  }
+
+  // Record a slope switch or a bucket lost/regained on this turn (rare; allocates only then).
+  private tell(slope0: Slope, phi0: number, had: boolean): void {
+    const s = this.state;
+    const gt = s.compaction.alpha0 > 0 ? 1 / Math.sqrt(s.compaction.alpha0) : NaN;
+    const at = `turn ${s.turn}, t = ${fmtEvent(s.time)} s`;
+    if (slope0 !== s.slope) {
+      const rf = this.setup.rf;
+      const msg = slopeSwitchMessage(s.turn, s.time, slope0, s.slope, phi0, s.phiS, s.gamma, gt, rf.slope === 'timed' ? rf.switchTime : undefined);
+      s.events.push({ turn: s.turn, time: s.time, kind: 'slopeSwitch', message: msg });
+    }
+    if (had && s.noBucket !== null)
+      s.events.push({ turn: s.turn, time: s.time, kind: 'bucketLost', message: `${at}: ${s.noBucket}` });
+    else if (!had && s.noBucket === null)
+      s.events.push({ turn: s.turn, time: s.time, kind: 'bucketRegained', message: `${at}: the bucket is back, φs = ${fmtEvent(s.phiS / DEG)}°` });
   }
 }
 

@@ -8,6 +8,8 @@
 // Added elements (collective kicks, radiation) run after the RF kicks of the last gap, with state n.
 import type { Bunch } from './bunch.ts';
 import { drift } from './elements/drift.ts';
+import { inducedKickFromSetup, type InducedKickElement } from './elements/inducedKick.ts';
+import { radiationKickFromSetup } from './elements/radiationKick.ts';
 import { rfKick } from './elements/rfKick.ts';
 import type { Element } from './elements/types.ts';
 import { MachineStepper, type MachineState } from './machine.ts';
@@ -25,6 +27,9 @@ export class Tracker {
   private ahead: MachineStepper | null = null; // state n+1, needed only with distributed gaps
   private gaps: Gap[] = [];
   private readonly extras: Element[] = [];
+  private physics: Element[] = []; // from the setup: induced voltage, then radiation (after the RF kicks)
+  /** The induced-voltage element of the setup (null without intensity and impedances); rebuilt by updateSetup. */
+  induced: InducedKickElement | null = null;
 
   constructor(setup: Setup, bunch: Bunch) {
     this.bunch = bunch;
@@ -71,6 +76,7 @@ export class Tracker {
     const extras = this.extras;
     if (this.ahead === null) {
       gaps[0].kick.apply(b, cur);
+      for (let j = 0; j < this.physics.length; j++) this.physics[j].apply(b, cur);
       for (let j = 0; j < extras.length; j++) extras[j].apply(b, cur);
       this.stepper.advance(); // cur is now the state of turn n+1
       gaps[0].drift.apply(b, cur);
@@ -80,6 +86,7 @@ export class Tracker {
     const last = gaps.length - 1;
     for (let g = 0; g <= last; g++) {
       gaps[g].kick.apply(b, cur);
+      if (g === last) for (let j = 0; j < this.physics.length; j++) this.physics[j].apply(b, cur);
       if (g === last) for (let j = 0; j < extras.length; j++) extras[j].apply(b, cur);
       gaps[g].drift.apply(b, nxt);
     }
@@ -96,6 +103,9 @@ export class Tracker {
       byPos.set(r.position, list);
     });
     const pos = [...byPos.keys()].sort((a, b) => a - b);
+    this.induced = inducedKickFromSetup(setup, this.stepper.state);
+    const rad = radiationKickFromSetup(setup);
+    this.physics = [this.induced, rad].filter((e): e is Element => e !== null);
     const { drift: mode, momentumAperture } = setup.run;
     this.gaps = pos.map((p, g) => {
       const frac = g + 1 < pos.length ? pos[g + 1] - p : 1 - p + pos[0];

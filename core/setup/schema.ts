@@ -3,6 +3,8 @@
 // phases in degrees, magnetic field rates in T/s. The same document travels in the URL and feeds the CLI.
 import { z } from 'zod';
 import { int, num } from './fields.ts';
+import { programChecks, rfProgram, smoothRamp, switchTime, tableRamp } from './programs.ts';
+import { collective, impedances, intensity, radiation } from './collective.ts';
 
 export const SETUP_VERSION = 1;
 
@@ -42,15 +44,19 @@ const rfSystem = z
     voltage: num('V', 0, 1e9, 'peak voltage'),
     phase: num('deg', -360, 360, 'phase offset from the main system, in this system\'s degrees (0 for the first system)').default(0),
     position: num('', 0, 0.999999, 'location around the ring as a fraction of the circumference').default(0),
+    program: rfProgram.optional(),
   })
   .strict();
 
 const rf = z
   .object({
     systems: z.array(rfSystem).min(1, { error: 'needs at least one RF system' }).max(8, { error: 'at most 8 RF systems' }),
-    slope: z.enum(['auto', 'rising', 'falling']).default('auto').meta({ description: 'RF slope carrying the bunch: auto picks by the slip factor (rising below transition, falling above)' }),
+    slope: z.enum(['auto', 'rising', 'falling', 'timed']).default('auto').meta({ description: 'RF slope carrying the bunch: auto picks by the slip factor (rising below transition, falling above); timed switches from rising to falling at rf.switchTime' }),
+    switchTime: switchTime.optional(),
   })
   .strict()
+  .refine((r) => (r.slope === 'timed') === (r.switchTime !== undefined), { error: "give rf.switchTime exactly when rf.slope is 'timed'", path: ['switchTime'] })
+  .refine((r) => r.systems[0].program?.phase === undefined, { error: 'the main system defines the phase: it takes no phase program', path: ['systems', 0, 'program', 'phase'] })
   .refine((r) => r.systems[0].phase === 0, { error: 'the first (main) system defines the phase: its phase must be 0', path: ['systems', 0, 'phase'] })
   .refine((r) => r.systems.every((s) => s.harmonic >= r.systems[0].harmonic), {
     error: 'the first system must have the lowest harmonic number (it defines the bucket spacing)',
@@ -69,6 +75,8 @@ const ramp = z.discriminatedUnion('kind', [
   z.object({ kind: z.literal('gainPerTurn'), value: num('eV', -1e9, 1e9, 'energy gain of the synchronous particle per turn') }).strict(),
   z.object({ kind: z.literal('bDot'), value: num('T/s', -1e3, 1e3, 'dipole field rate dB/dt (needs ring.bendingRadius)') }).strict(),
   z.object({ kind: z.literal('momentumRate'), value: num('eV/s', -1e16, 1e16, 'rate of change of p·c') }).strict(),
+  tableRamp,
+  smoothRamp,
 ]);
 
 const size = z.discriminatedUnion('by', [
@@ -131,8 +139,13 @@ export const setupSchema = z
     rf,
     beam,
     run: run.default({ turns: 1000, drift: 'exact', momentumAperture: 0.02, diagnosticsEvery: 10, profileBins: 256 }),
+    intensity: intensity.optional(),
+    impedances: impedances.default([]),
+    collective: collective.default({ bins: 512, smoothing: 1, window: 0, matchIterations: 300, matchTolerance: 1e-8 }),
+    radiation: radiation.optional(),
   })
-  .strict();
+  .strict()
+  .superRefine(programChecks);
 
 /** A validated setup (defaults filled in). */
 export type Setup = z.output<typeof setupSchema>;
