@@ -28,6 +28,9 @@ export const SCRATCH = 448;
 /** First byte available to particle columns. */
 export const HEAP_BASE = 512;
 
+/** Particles per chunk of the split kick-then-drift loop (2 × 8 kB of columns: stays in L1). */
+const CHUNK = 512;
+
 export type DriftKind = 'none' | 'linear' | 'exact';
 
 /** Exported function name for a kick of `rf` systems (0 = none) followed by a drift of `drift` kind. */
@@ -93,7 +96,7 @@ const store64lane0 = (addr: Code, v: Code): Code => [...addr, ...v, ...simd(0x5b
 function kernelBody(rf: number, drift: DriftKind): Code {
   const DT = 0, DE = 1, N = 2;
   let next = 3;
-  const PT = next++, PE = next++, PEND = next++, TAIL = next++, BASE = next++; // i32
+  const PT = next++, PE = next++, PEND = next++, TAIL = next++, BASE = next++, QT = next++, QE = next++, CEND = next++; // i32
   const nI32 = next - 3;
   const firstV = next;
   const v = () => next++;
@@ -112,7 +115,8 @@ function kernelBody(rf: number, drift: DriftKind): Code {
   const setup: Code[] = [set(BASE, [...i32c(0), 0x28, 2, ...uleb(PARAM.ZERO_I32)])]; // i32.load
 
   // The map for the two particles in T, E (as sinPoly and js.ts, operation for operation).
-  const body: Code[] = [];
+  const kickBody: Code[] = [];
+  const body = kickBody;
   for (let k = 0; k < rf; k++) {
     body.push(
       set(X, add(PH(k), mul(W(k), g(T)))), // x = φ_k + w_k·dt
@@ -129,6 +133,9 @@ function kernelBody(rf: number, drift: DriftKind): Code {
     body.push(set(ACC, k === 0 ? term : add(g(ACC), term)));
   }
   if (rf > 0) body.push(set(E, add(g(E), sub(g(ACC), SYNC))));
+  const driftBody: Code[] = [];
+  {
+  const body = driftBody;
   if (drift === 'linear') body.push(set(T, add(g(T), mul(SLIP, g(E)))));
   if (drift === 'exact') {
     // ε, w = ε(2+ε), u = w/β², s = √max(1+u, 0), D = 1+s, B = (2+ε)D + u, Q = α0D² + u(α1D + α2u),
@@ -150,24 +157,52 @@ function kernelBody(rf: number, drift: DriftKind): Code {
     );
   }
   if (drift !== 'none') body.push(set(MASK, v128and(v128and(f64x2.le(f64x2.abs(g(T)), DTMAX), f64x2.le(g(E), DEMAX)), f64x2.ge(g(E), DEMIN))));
+  }
 
   const counting = drift !== 'none';
+  const step = (p: number): Code => set(p, i32.add(g(p), i32c(16)));
+  // while (pt < pend): one pair, kick and drift together
+  const fusedLoop: Code[] = [
+    [0x02, 0x40, ...i32.ltu(g(PT), g(PEND)), 0x45, 0x0d, 0, 0x03, 0x40], // block; br_if 0 (!(pt<pend)); loop
+    set(T, v128load(g(PT))), set(E, v128load(g(PE))),
+    ...kickBody, ...driftBody,
+    v128store(g(PT), g(T)), v128store(g(PE), g(E)),
+    counting ? set(CNT, i64x2sub(g(CNT), g(MASK))) : [],
+    step(PT), step(PE),
+    [...i32.ltu(g(PT), g(PEND)), 0x0d, 0, 0x0b, 0x0b], // br_if 0 (loop); end loop; end block
+  ];
+  // Chunks of CHUNK particles (in L1): all kicks of the chunk, then all drifts. The exact drift's sqrt and
+  // division make a long dependency chain; fused with the kick's, too few pairs fit the out-of-order window.
+  const split = rf > 0 && drift === 'exact';
+  const splitLoop: Code[] = [
+    [0x02, 0x40, 0x03, 0x40], // block $done; loop $chunk
+    [...i32.ltu(g(PT), g(PEND)), 0x45, 0x0d, 1], // br_if $done (!(pt < pend))
+    set(CEND, [...i32.add(g(PT), i32c(8 * CHUNK)), ...g(PEND), ...i32.ltu(i32.add(g(PT), i32c(8 * CHUNK)), g(PEND)), 0x1b]), // min
+    set(QT, g(PT)), set(QE, g(PE)),
+    [0x03, 0x40], // loop $kick
+    set(T, v128load(g(QT))), set(E, v128load(g(QE))),
+    ...kickBody,
+    v128store(g(QE), g(E)),
+    step(QT), step(QE),
+    [...i32.ltu(g(QT), g(CEND)), 0x0d, 0, 0x0b], // br_if $kick; end
+    [0x03, 0x40], // loop $drift
+    set(T, v128load(g(PT))), set(E, v128load(g(PE))),
+    ...driftBody,
+    v128store(g(PT), g(T)),
+    set(CNT, i64x2sub(g(CNT), g(MASK))),
+    step(PT), step(PE),
+    [...i32.ltu(g(PT), g(CEND)), 0x0d, 0, 0x0b], // br_if $drift; end
+    [0x0c, 0, 0x0b, 0x0b], // br $chunk; end loop; end block
+  ];
   const code: Code[] = [
     ...setup,
     set(PT, g(DT)), set(PE, g(DE)),
     set(PEND, i32.add(g(DT), i32.shl(i32.and(g(N), i32c(-2)), i32c(3)))), // dt + 8·(n & ~1)
-    // while (pt < pend): one pair
-    [0x02, 0x40, ...i32.ltu(g(PT), g(PEND)), 0x45, 0x0d, 0, 0x03, 0x40], // block; br_if 0 (!(pt<pend)); loop
-    set(T, v128load(g(PT))), set(E, v128load(g(PE))),
-    ...body,
-    v128store(g(PT), g(T)), v128store(g(PE), g(E)),
-    counting ? set(CNT, i64x2sub(g(CNT), g(MASK))) : [],
-    set(PT, i32.add(g(PT), i32c(16))), set(PE, i32.add(g(PE), i32c(16))),
-    [...i32.ltu(g(PT), g(PEND)), 0x0d, 0, 0x0b, 0x0b], // br_if 0 (loop); end loop; end block
+    ...(split ? splitLoop : fusedLoop),
     // odd last particle: lane 0 only
     [...i32.and(g(N), i32c(1)), 0x04, 0x40],
     set(T, load64zero(g(PT))), set(E, load64zero(g(PE))),
-    ...body,
+    ...kickBody, ...driftBody,
     store64lane0(g(PT), g(T)), store64lane0(g(PE), g(E)),
     counting ? set(TAIL, i32.wrapI64(i64x2lane(g(MASK), 0))) : [], // −1 inside, 0 outside
     [0x0b],
