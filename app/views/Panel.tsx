@@ -1,20 +1,10 @@
 // A titled plot panel with a PNG export button; the plot div is handed to the view that draws it.
-import { useRef, type ReactNode, type RefObject } from 'react';
-import Plotly from '../plotly.ts';
+import type { ReactNode, RefObject } from 'react';
+import { savePng } from './png.ts';
 
 /** Panel frame around one Plotly plot. */
 export function Panel(props: { id: string; title: string; plotRef: RefObject<HTMLDivElement | null>; extra?: ReactNode; className?: string }) {
-  const busy = useRef(false);
-  const png = async () => {
-    const el = props.plotRef.current;
-    if (!el || busy.current) return;
-    busy.current = true;
-    try {
-      await Plotly.downloadImage(el, { format: 'png', filename: `phasewell-${props.id}`, width: el.clientWidth * 2, height: el.clientHeight * 2 });
-    } finally {
-      busy.current = false;
-    }
-  };
+  const png = () => savePng([props.plotRef.current], `phasewell-${props.id}`);
   return (
     <section className={'panel ' + (props.className ?? '')} aria-labelledby={props.id + '-title'}>
       <header className="panel-head">

@@ -1,5 +1,7 @@
 // Phase-space view: the beam as a density image (or as points when few) in (dt [ns], dE [MeV or keV]), with
-// the separatrix and fixed points of the bucket at the shown energy drawn over it.
+// the separatrix and fixed points of the bucket at the shown energy drawn over it. Two Plotly figures are
+// stacked with the same margins and ranges: the beam layer redraws every frame, the bucket layer (axes,
+// separatrix) only when the bucket or the window changes, which keeps each redraw a short task.
 import { useEffect, useRef } from 'react';
 import type { Data, Layout } from 'plotly.js';
 import Plotly from '../plotly.ts';
@@ -8,12 +10,18 @@ import { shownEnergy } from '../runner.ts';
 import { useApp } from '../store.ts';
 import { energyUnit } from '../units.ts';
 import { chooseWindow } from '../viewWindow.ts';
-import { BASE_LAYOUT, CONFIG, Panel } from './Panel.tsx';
+import { BASE_LAYOUT } from './Panel.tsx';
+import { savePng } from './png.ts';
 import { scheduleDraw } from './schedule.ts';
 
 /** Density colours: pale paper to deep ink, empty cells left blank. */
 export const DENSITY_SCALE: [number, string][] = [[0, '#dfe8f1'], [0.25, '#8fb3d1'], [0.55, '#3f6f99'], [0.8, '#1f3b5c'], [1, '#0e1a2b']];
 const SEP_COLOUR = '#c0561b';
+const STATIC = { displayModeBar: false, responsive: true, staticPlot: true } as const;
+// The bucket layer follows a ramp at most this often [ms].
+const BUCKET_GAP_MS = 200;
+// The beam layer at most this often [ms]: ~12 pictures a second read as motion and leave the page idle time.
+const BEAM_GAP_MS = 80;
 
 function heatmapZ(h: Float32Array, nx: number, ny: number): (number | null)[][] {
   const z: (number | null)[][] = new Array(ny);
@@ -28,62 +36,91 @@ function heatmapZ(h: Float32Array, nx: number, ny: number): (number | null)[][] 
   return z;
 }
 
+function axes(visible: boolean): Partial<Layout> {
+  return {
+    ...BASE_LAYOUT,
+    margin: { l: 60, r: 14, t: 8, b: 42 },
+    xaxis: { title: { text: 'time offset dt [ns] (late →)' }, zeroline: false, visible, autorange: false },
+    yaxis: { title: { text: 'energy offset dE [MeV]' }, zeroline: visible, zerolinecolor: '#d0d0d0', visible, autorange: false },
+    datarevision: 0,
+    ...(visible ? { paper_bgcolor: 'rgba(0,0,0,0)', plot_bgcolor: 'rgba(0,0,0,0)' } : {}),
+  };
+}
+
+function setRanges(L: Partial<Layout>, x: [number, number], y: [number, number], yTitle?: string): void {
+  L.xaxis!.range = x;
+  L.yaxis!.range = y;
+  if (yTitle) L.yaxis!.title = { text: yTitle };
+  L.datarevision = (L.datarevision as number) + 1;
+}
+
 /** The phase-space panel. */
 export function PhaseSpace() {
-  const ref = useRef<HTMLDivElement>(null);
-  const layout = useRef<Partial<Layout>>({
-    ...BASE_LAYOUT,
-    xaxis: { title: { text: 'time offset dt [ns] (late →)' }, zeroline: false },
-    yaxis: { title: { text: 'energy offset dE [MeV]' }, zeroline: true, zerolinecolor: '#d0d0d0' },
-    datarevision: 0,
-  });
+  const beamRef = useRef<HTMLDivElement>(null);
+  const topRef = useRef<HTMLDivElement>(null);
+  const beamLayout = useRef(axes(false));
+  const topLayout = useRef(axes(true));
   const valid = useApp((s) => s.valid);
   const frame = useApp((s) => s.frame);
+  const bv = useApp((s) => bucketAt(s.valid, shownEnergy(s)));
+  const win = chooseWindow(bv, frame?.current ?? null);
+  const eu = energyUnit(win.dEMax);
+  const k = eu.toDisplay;
+  const xr: [number, number] = [win.dtMin * 1e9, win.dtMax * 1e9];
+  const yr: [number, number] = [win.dEMin * k, win.dEMax * k];
+  const key = `${xr}|${yr}`;
+
+  // Bucket layer: axes, separatrix, fixed points.
   useEffect(() => {
-    const bv = bucketAt(valid, shownEnergy({ frame }));
-    const win = chooseWindow(bv, frame?.current ?? null);
-    const eu = energyUnit(win.dEMax);
-    const k = eu.toDisplay;
     const data: Data[] = [];
-    if (frame?.points) {
-      const p = frame.points;
-      const x = new Float32Array(p.dt.length), y = new Float32Array(p.dt.length);
-      for (let i = 0; i < x.length; i++) { x[i] = p.dt[i] * 1e9; y[i] = p.dE[i] * k; }
-      data.push({ type: 'scattergl', mode: 'markers', x, y, marker: { size: 2, color: '#1f3b5c', opacity: 0.6 }, hoverinfo: 'skip', name: 'particles' } as Data);
-    } else if (frame) {
-      const v = frame.view;
-      const dx = (v.dtMax - v.dtMin) / v.nx, dy = (v.dEMax - v.dEMin) / v.ny;
-      data.push({
-        type: 'heatmap', z: [] as (number | null)[][], // filled when drawn (see below)
-        x0: (v.dtMin + dx / 2) * 1e9, dx: dx * 1e9, y0: (v.dEMin + dy / 2) * k, dy: dy * k,
-        colorscale: DENSITY_SCALE, showscale: false, hoverinfo: 'skip', zsmooth: 'fast', name: 'density',
-      } as Data);
-    }
     if (bv.sep) {
       const s = bv.sep;
-      data.push({ type: 'scatter', mode: 'lines', x: Array.from(s.dt, (t) => t * 1e9), y: Array.from(s.dE, (e) => e * k), line: { color: SEP_COLOUR, width: 1.6 }, hoverinfo: 'skip', name: 'separatrix' });
+      data.push({ type: 'scatter', mode: 'lines', x: Array.from(s.dt, (t) => t * 1e9), y: Array.from(s.dE, (e) => e * k), line: { color: SEP_COLOUR, width: 1.6 }, name: 'separatrix' });
     }
-    data.push({ type: 'scatter', mode: 'markers', x: bv.stableDt.map((t) => t * 1e9), y: bv.stableDt.map(() => 0), marker: { symbol: 'circle-open', size: 8, color: SEP_COLOUR }, name: 'stable fixed point', hoverinfo: 'skip' });
-    data.push({ type: 'scatter', mode: 'markers', x: bv.unstableDt.map((t) => t * 1e9), y: bv.unstableDt.map(() => 0), marker: { symbol: 'x-thin-open', size: 9, color: SEP_COLOUR, line: { width: 2, color: SEP_COLOUR } }, name: 'unstable fixed point', hoverinfo: 'skip' });
-    const L = layout.current;
-    L.xaxis!.range = [win.dtMin * 1e9, win.dtMax * 1e9];
-    L.yaxis!.range = [win.dEMin * k, win.dEMax * k];
-    (L.yaxis!.title as { text: string }).text = `energy offset dE [${eu.label}]`;
-    L.datarevision = (L.datarevision as number) + 1;
+    data.push({ type: 'scatter', mode: 'markers', x: bv.stableDt.map((t) => t * 1e9), y: bv.stableDt.map(() => 0), marker: { symbol: 'circle-open', size: 8, color: SEP_COLOUR }, name: 'stable fixed point' });
+    data.push({ type: 'scatter', mode: 'markers', x: bv.unstableDt.map((t) => t * 1e9), y: bv.unstableDt.map(() => 0), marker: { symbol: 'x-thin-open', size: 9, color: SEP_COLOUR, line: { width: 2, color: SEP_COLOUR } }, name: 'unstable fixed point' });
+    setRanges(topLayout.current, xr, yr, `energy offset dE [${eu.label}]`);
+    scheduleDraw('bucket', () => topRef.current && Plotly.react(topRef.current, data, topLayout.current, STATIC), BUCKET_GAP_MS);
+  }, [bv, key]);
+
+  // Beam layer: density image or points.
+  useEffect(() => {
+    if (!frame) return;
+    setRanges(beamLayout.current, xr, yr);
     scheduleDraw('phase', () => {
-      // Convert the histogram only for frames that are actually drawn.
-      if (frame && !frame.points) (data[0] as { z: unknown }).z = heatmapZ(frame.hist, frame.view.nx, frame.view.ny);
-      if (ref.current) Plotly.react(ref.current, data, L, CONFIG);
-    });
-  }, [valid, frame]);
-  const bucket = useApp((s) => bucketAt(s.valid, shownEnergy(s)));
+      const data: Data[] = [];
+      if (frame.points) {
+        const p = frame.points;
+        const x = new Float32Array(p.dt.length), y = new Float32Array(p.dt.length);
+        for (let i = 0; i < x.length; i++) { x[i] = p.dt[i] * 1e9; y[i] = p.dE[i] * k; }
+        data.push({ type: 'scattergl', mode: 'markers', x, y, marker: { size: 2, color: '#1f3b5c', opacity: 0.6 }, name: 'particles' } as Data);
+      } else {
+        const v = frame.view;
+        const dx = (v.dtMax - v.dtMin) / v.nx, dy = (v.dEMax - v.dEMin) / v.ny;
+        data.push({
+          type: 'heatmap', z: heatmapZ(frame.hist, v.nx, v.ny), x0: (v.dtMin + dx / 2) * 1e9, dx: dx * 1e9, y0: (v.dEMin + dy / 2) * k, dy: dy * k,
+          colorscale: DENSITY_SCALE, showscale: false, zsmooth: 'fast', name: 'density',
+        } as Data);
+      }
+      if (beamRef.current) Plotly.react(beamRef.current, data, beamLayout.current, STATIC);
+    }, BEAM_GAP_MS);
+  }, [frame, key, valid]);
+
   return (
-    <Panel
-      id="phase"
-      title="Phase space"
-      plotRef={ref}
-      className="phase"
-      extra={<span className="panel-note" id="phase-state">{bucket.bucket ? 'separatrix shown' : `no bucket: ${bucket.reason}`}</span>}
-    />
+    <section className="panel phase" aria-labelledby="phase-title">
+      <header className="panel-head">
+        <h2 id="phase-title">Phase space</h2>
+        <span className="panel-note" id="phase-state">
+          {bv.bucket ? 'separatrix and fixed points (○ stable, × unstable)' : `no bucket: ${bv.reason}`}
+        </span>
+        <button type="button" className="small" title="Save this plot as a PNG image" onClick={() => savePng([beamRef.current, topRef.current], 'phasewell-phase-space')}>
+          PNG
+        </button>
+      </header>
+      <div className="plot stack">
+        <div className="layer" id="plot-phase-beam" ref={beamRef} />
+        <div className="layer" id="plot-phase" ref={topRef} />
+      </div>
+    </section>
   );
 }

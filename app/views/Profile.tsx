@@ -6,6 +6,9 @@ import { useApp } from '../store.ts';
 import { BASE_LAYOUT, CONFIG, Panel } from './Panel.tsx';
 import { scheduleDraw } from './schedule.ts';
 
+// Redraw at most this often while tracking [ms].
+const MIN_GAP_MS = 150;
+
 /** Bin centres [ns] of a profile over [dtMin, dtMax). */
 export function binCentresNs(dtMin: number, dtMax: number, n: number): Float64Array {
   const w = (dtMax - dtMin) / n;
@@ -32,7 +35,7 @@ export function Profile() {
     const L = layout.current;
     L.xaxis!.range = [v.dtMin * 1e9, v.dtMax * 1e9];
     L.datarevision = (L.datarevision as number) + 1;
-    scheduleDraw('profile', () => ref.current && Plotly.react(ref.current, data, L, CONFIG));
+    scheduleDraw('profile', () => ref.current && Plotly.react(ref.current, data, L, CONFIG), MIN_GAP_MS);
   }, [frame]);
   return <Panel id="profile" title="Line density" plotRef={ref} />;
 }

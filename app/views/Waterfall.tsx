@@ -9,7 +9,7 @@ import { binCentresNs } from './Profile.tsx';
 import { scheduleDraw } from './schedule.ts';
 
 // The history changes slowly: redraw at most this often while tracking [ms].
-const MIN_GAP_MS = 400;
+const MIN_GAP_MS = 500;
 
 /** The profile-history panel. */
 export function Waterfall() {

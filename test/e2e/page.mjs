@@ -12,8 +12,9 @@ export async function openApp(ctx, url) {
 export async function waitReady(page, timeout = 20000) {
   await page.waitForFunction(() => {
     const s = document.getElementById('status')?.textContent ?? '';
-    const el = document.getElementById('plot-phase');
-    return s === 'ready' && el?.data?.some((t) => t.name === 'separatrix') && el.data.some((t) => t.name === 'density' || t.name === 'particles');
+    const top = document.getElementById('plot-phase')?.data ?? [];
+    const beam = document.getElementById('plot-phase-beam')?.data ?? [];
+    return s === 'ready' && top.some((t) => t.name === 'separatrix') && beam.some((t) => t.name === 'density' || t.name === 'particles');
   }, null, { timeout });
 }
 
