@@ -36,14 +36,17 @@ function heatmapZ(h: Float32Array, nx: number, ny: number): (number | null)[][] 
   return z;
 }
 
-function axes(visible: boolean): Partial<Layout> {
+// Both layers share margins and ranges. The beam layer (below) carries the grid; the bucket layer (above) is
+// transparent and carries the tick labels, titles and zero line, so no grid line crosses the beam.
+function axes(top: boolean): Partial<Layout> {
+  const axis = { zeroline: top, zerolinecolor: '#d0d0d0', showgrid: !top, showticklabels: top, ticks: top ? ('outside' as const) : ('' as const), autorange: false };
   return {
     ...BASE_LAYOUT,
     margin: { l: 60, r: 14, t: 8, b: 42 },
-    xaxis: { title: { text: 'time offset dt [ns] (late →)' }, zeroline: false, visible, autorange: false },
-    yaxis: { title: { text: 'energy offset dE [MeV]' }, zeroline: visible, zerolinecolor: '#d0d0d0', visible, autorange: false },
+    xaxis: { ...axis, title: { text: top ? 'time offset dt [ns] (late →)' : '' } },
+    yaxis: { ...axis, title: { text: top ? 'energy offset dE [MeV]' : '' } },
     datarevision: 0,
-    ...(visible ? { paper_bgcolor: 'rgba(0,0,0,0)', plot_bgcolor: 'rgba(0,0,0,0)' } : {}),
+    ...(top ? { paper_bgcolor: 'rgba(0,0,0,0)', plot_bgcolor: 'rgba(0,0,0,0)' } : {}),
   };
 }
 
