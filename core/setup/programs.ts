@@ -13,7 +13,9 @@ const time = num('s', 0, TIME_MAX, 'time since turn 0');
 
 function table(value: ReturnType<typeof num>, what: string) {
   return z
-    .array(z.tuple([time, value]), { error: `must be a list of [time (s), ${what}] pairs` })
+    .array(z.tuple([time, value]).meta({ description: `one point [time (s), ${what}]; times after 0, non-decreasing (a repeated time is a step), linear in between, last value held` }), {
+      error: `must be a list of [time (s), ${what}] pairs`,
+    })
     .min(1, { error: 'needs at least one point' })
     .max(MAX_POINTS, { error: `at most ${MAX_POINTS} points` })
     .superRefine((pts, ctx) => {
