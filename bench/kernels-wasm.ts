@@ -1,14 +1,20 @@
 // Benchmark of the standalone turn kernels (core/kernels): million particle-turns per second (Mpt/s) for
 // {js, wasm} × {1 RF, 2 RF} × {linear, exact drift}, one thread, fused kick + drift with the loss count.
-// `npx tsx bench/kernels-wasm.ts` prints a table; `--json` prints { "kernels": [...] }.
+// `npx tsx bench/kernels-wasm.ts` prints a table; `--json` prints { "kernels": [...] }; `--threads` adds the
+// wasm cases on 2 worker threads (threads: 2).
 // Each figure is the median of RUNS timed runs after one warm-up run. Not a test: nothing here passes or fails.
 import { performance } from 'node:perf_hooks';
+import { Worker } from 'node:worker_threads';
 import { createJsKernel, createWasmKernel, makeDriftParams, makeKickParams, type TurnKernel } from '../core/kernels/index.ts';
+import { exactConstants } from '../core/kernels/js.ts';
+import { wasmApi } from '../core/kernels/wasm.ts';
+import { buildKernelModule, HEAP_BASE, kernelName, PARAM } from '../core/kernels/wasmModule.ts';
 import { makeRng } from '../core/rng.ts';
 
 const RUNS = 7;
 const PARTICLES = 1_000_000;
 const TURNS = 50;
+const PAGE = 65536;
 const json = process.argv.includes('--json');
 
 interface KernelCase { name: string; particles: number; turns: number; rfSystems: number; drift: 'linear' | 'exact'; threads: number; impl: 'wasm' | 'js'; mpts: number }
@@ -58,9 +64,80 @@ function run(kernel: TurnKernel, rf: number, drift: 'linear' | 'exact'): KernelC
   return { name: `${rf} RF, ${drift} drift`, particles: PARTICLES, turns: TURNS, rfSystems: rf, drift, threads: 1, impl: kernel.impl, mpts: median(mpts) };
 }
 
+// The worker: plain JavaScript (evaluated, so no TypeScript loader is needed in the thread).
+const WORKER_SOURCE = `
+const { parentPort, workerData } = require('node:worker_threads');
+const { module, memory } = workerData;
+const ex = new WebAssembly.Instance(module, { env: { memory } }).exports;
+parentPort.on('message', (job) => {
+  const f = ex[job.fn];
+  let out = 0;
+  for (let t = 0; t < job.turns; t++) out += f(job.dt, job.dE, job.n);
+  parentPort.postMessage(out);
+});`;
+
+// Two threads: the particles split in halves over 2 Node worker_threads, each with its own instance of the kernel
+// module over ONE shared WebAssembly memory. Single-particle dynamics need no barrier, so each worker tracks its
+// half for all turns; the figure is the wall time until both are done (`--threads`; Node only, not in core/).
+interface Job { fn: string; dt: number; dE: number; n: number; turns: number }
+
+async function threadCases(): Promise<KernelCase[]> {
+  const bytes = HEAP_BASE + 16 * PARTICLES + 64;
+  const pages = Math.ceil(bytes / PAGE);
+  const api = wasmApi()!;
+  const memory = new api.Memory({ initial: pages, maximum: pages, shared: true });
+  const module = new api.Module(buildKernelModule({ shared: true, maxPages: pages }));
+  const workers = [0, 1].map(() => new Worker(WORKER_SOURCE, { eval: true, workerData: { module, memory } }));
+  const run = (w: Worker, job: Job) => new Promise<number>((resolve) => { w.once('message', resolve); w.postMessage(job); });
+
+  const p = new Float64Array(memory.buffer, 0, HEAP_BASE / 8);
+  const dtCol = new Float64Array(memory.buffer, HEAP_BASE, PARTICLES);
+  const dECol = new Float64Array(memory.buffer, HEAP_BASE + 8 * PARTICLES, PARTICLES);
+  const kernels: KernelCase[] = [];
+  for (const [rf, drift] of [[1, 'linear'], [2, 'linear'], [1, 'exact'], [2, 'exact']] as const) {
+    const kick = makeKickParams();
+    kick.amplitude.set([60e3, 30e3]); kick.omega.set([8 * w0, 16 * w0]); kick.phase.set([0.1, Math.PI + 0.2]);
+    const d = makeDriftParams(drift);
+    Object.assign(d, { slip: (T0 * eta0) / (beta2 * Es), period: T0, Es, beta2, gamma2, alpha0 });
+    const x = exactConstants(d);
+    for (let j = 0; j < 4; j++) {
+      p[PARAM.A / 8 + j] = j < rf ? kick.amplitude[j] : 0;
+      p[PARAM.W / 8 + j] = j < rf ? kick.omega[j] : 0;
+      p[PARAM.PHI / 8 + j] = j < rf ? kick.phase[j] : 0;
+    }
+    let sync = 0; // Σ A sin φ with Math.sin: the bench only times, it does not need the exact fixed point
+    for (let j = 0; j < rf; j++) sync += kick.amplitude[j] * Math.sin(kick.phase[j]);
+    Object.entries({ SYNC: sync, SLIP: d.slip, PERIOD: T0, INV_ES: x.invEs, INV_B2: x.invB2, INV_B2G2: x.invB2G2, AL0: alpha0, AL1: 0, AL2: 0, DT_MAX: T0 / 2, DE_MIN: -0.5 * Es, DE_MAX: 0.5 * Es })
+      .forEach(([k, v]) => (p[PARAM[k as keyof typeof PARAM] / 8] = v));
+    const fn = kernelName(rf, drift);
+    const half = PARTICLES / 2;
+    const mpts: number[] = [];
+    const rng = makeRng(1);
+    for (let r = 0; r <= RUNS; r++) {
+      for (let i = 0; i < PARTICLES; i++) {
+        dtCol[i] = (0.05 / (8 * w0)) * rng.normal();
+        dECol[i] = 1e5 * rng.normal();
+      }
+      const t0 = performance.now();
+      const lost = await Promise.all([
+        run(workers[0], { fn, dt: HEAP_BASE, dE: HEAP_BASE + 8 * PARTICLES, n: half, turns: TURNS }),
+        run(workers[1], { fn, dt: HEAP_BASE + 8 * half, dE: HEAP_BASE + 8 * PARTICLES + 8 * half, n: half, turns: TURNS }),
+      ]);
+      const s = (performance.now() - t0) / 1e3;
+      if (lost[0] + lost[1] !== 0) throw new Error('bench bunch lost particles');
+      if (r > 0) mpts.push((PARTICLES * TURNS) / s / 1e6);
+    }
+    kernels.push({ name: `${rf} RF, ${drift} drift`, particles: PARTICLES, turns: TURNS, rfSystems: rf, drift, threads: 2, impl: 'wasm', mpts: median(mpts) });
+  }
+  await Promise.all(workers.map((w) => w.terminate()));
+  return kernels;
+}
+
 const kernels: KernelCase[] = [];
 for (const make of [() => createJsKernel(), () => createWasmKernel({ initialParticles: PARTICLES })])
   for (const [rf, drift] of [[1, 'linear'], [2, 'linear'], [1, 'exact'], [2, 'exact']] as const) kernels.push(run(make(), rf, drift));
+
+if (process.argv.includes('--threads')) kernels.push(...(await threadCases()));
 
 if (json) process.stdout.write(JSON.stringify({ kernels }, null, 2) + '\n');
 else {
