@@ -6,6 +6,9 @@
 // A = x² + y² (normalised), and one turn changes A by ((1−d)² − 1)·y² + n²ξ², i.e. ⟨ΔA⟩ = −d·A + n²; the
 // equilibrium A = n²/d must give ⟨dE²⟩ = σ_E², so n² = 2d·σ_E² = 4σ_E²·T0/τ_E (first order in d).
 // σ_E = σ_δ·E_s (β ≈ 1) from core/radiation.ts; U0, τ_E and σ_E follow E_s turn by turn.
+// Normal deviates: Box–Muller on xorshift128 uniforms (G. Marsaglia, J. Stat. Softw. 8 (2003) 14; period 2^128 − 1),
+// seeded from the injected generator; inlined because a generator call per particle per turn tripled the turn time.
+// Uniforms have 32-bit resolution, so |ξ| ≤ sqrt(−2 ln 2^−32) ≈ 6.7: tails beyond are cut (irrelevant for diffusion).
 import type { Bunch } from '../bunch.ts';
 import type { MachineState } from '../machine.ts';
 import { energyLossPerTurn, naturalEnergySpread, radiationLattice, type RadiationLattice } from '../radiation.ts';
@@ -22,6 +25,8 @@ export interface RadiationKickOptions {
 
 /** Radiation damping (−J_E·U0/E_s·dE) and quantum excitation (2σ_E·sqrt(T0/τ_E)·ξ) per turn. */
 export function radiationKick(lat: RadiationLattice, opts: RadiationKickOptions, rng: Rng = makeRng(opts.seed)): Element {
+  const xs = new Uint32Array(4);
+  for (let k = 0; k < 4; k++) xs[k] = Math.floor(rng.uniform() * 4294967296) || 1;
   return {
     name: 'radiation',
     apply(b: Bunch, m: MachineState): void {
@@ -31,7 +36,7 @@ export function radiationKick(lat: RadiationLattice, opts: RadiationKickOptions,
       const sigmaE = naturalEnergySpread(m.particle, m.gamma, lat) * m.Es;
       const noise = opts.quantumExcitation ? sigmaE * Math.sqrt(2 * d) : 0; // 2σ_E·sqrt(T0/τ_E)
       if (noise === 0) scale(b.dE, b.n, damp);
-      else dampAndKick(b.dE, b.n, damp, noise, rng);
+      else dampAndKick(b.dE, b.n, damp, noise, xs);
     },
   };
 }
@@ -41,8 +46,26 @@ function scale(dE: Float64Array, n: number, f: number): void {
   for (let i = 0; i < n; i++) dE[i] *= f;
 }
 
-function dampAndKick(dE: Float64Array, n: number, f: number, noise: number, rng: Rng): void {
-  for (let i = 0; i < n; i++) dE[i] = f * dE[i] + noise * rng.normal();
+const TWO_PI = 2 * Math.PI;
+const U32 = 1 / 4294967296;
+
+// dE ← f·dE + noise·ξ, two deviates per Box–Muller pair; xs is the xorshift128 state, updated in place.
+function dampAndKick(dE: Float64Array, n: number, f: number, noise: number, xs: Uint32Array): void {
+  let x = xs[0], y = xs[1], z = xs[2], w = xs[3];
+  for (let i = 0; i < n; i += 2) {
+    let t = x ^ (x << 11);
+    x = y; y = z; z = w;
+    w = (w ^ (w >>> 19) ^ (t ^ (t >>> 8))) >>> 0;
+    const u1 = (w + 1) * U32; // (0, 1]
+    t = x ^ (x << 11);
+    x = y; y = z; z = w;
+    w = (w ^ (w >>> 19) ^ (t ^ (t >>> 8))) >>> 0;
+    const r = noise * Math.sqrt(-2 * Math.log(u1));
+    const a = TWO_PI * w * U32;
+    dE[i] = f * dE[i] + r * Math.cos(a);
+    if (i + 1 < n) dE[i + 1] = f * dE[i + 1] + r * Math.sin(a);
+  }
+  xs[0] = x; xs[1] = y; xs[2] = z; xs[3] = w;
 }
 
 /** The radiation element of a setup, or null without a radiation block. */
