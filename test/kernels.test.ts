@@ -318,3 +318,20 @@ describe('wasm kernel', () => {
     expect(() => wasm.kick(small, 4, kickOf(1))).toThrow(/\[0, 3\]/);
   });
 });
+
+describe('wasm kernel, asynchronous creation (for a page main thread)', () => {
+  it('createWasmKernelAsync gives a kernel with the same bits as the synchronous one', async () => {
+    const { createWasmKernelAsync } = await import('../core/kernels/index.ts');
+    const a = await createWasmKernelAsync(), b = createWasmKernel();
+    const ca = a.allocColumns(9), cb = b.allocColumns(9);
+    fill(ca, 9, 5);
+    cb.dt.set(ca.dt);
+    cb.dE.set(ca.dE);
+    const kick = kickOf(2);
+    kick.dEsync = a.syncGain(kick);
+    for (let t = 0; t < 10; t++) expect(a.kickDrift(ca, 9, kick, driftOf('exact'), limits)).toBe(b.kickDrift(cb, 9, kick, driftOf('exact'), limits));
+    expect(ca.dt).toEqual(cb.dt);
+    expect(ca.dE).toEqual(cb.dE);
+    expect(ca.dt[1]).not.toBe(0);
+  });
+});

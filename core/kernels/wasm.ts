@@ -16,10 +16,15 @@ export interface WasmMemory {
   readonly buffer: ArrayBuffer;
   grow(deltaPages: number): number;
 }
+interface WasmInstance {
+  exports: Record<string, unknown>;
+}
 interface WasmApi {
   validate(bytes: Uint8Array): boolean;
+  compile(bytes: Uint8Array): Promise<object>;
+  instantiate(module: object, imports: object): Promise<WasmInstance>;
   Module: new (bytes: Uint8Array) => object;
-  Instance: new (module: object, imports: object) => { exports: Record<string, unknown> };
+  Instance: new (module: object, imports: object) => WasmInstance;
   Memory: new (descriptor: { initial: number; maximum?: number; shared?: boolean }) => WasmMemory;
 }
 type KernelFn = (dtPtr: number, dEPtr: number, n: number) => number;
@@ -48,7 +53,11 @@ export function wasmSimdSupported(): boolean {
   return supported;
 }
 
-/** The compiled kernel module (synchronous compile: the module is small), for Node, workers and the page. */
+/**
+ * The compiled kernel module, compiled synchronously on first use (fine in Node and in workers). Chromium
+ * refuses synchronous compiles and instantiations of modules over 4 kB on a page's main thread: there, use
+ * createWasmKernelAsync (which compiles and instantiates asynchronously).
+ */
 export function kernelModule(): object {
   const api = wasmApi();
   if (!api || !wasmSimdSupported()) throw new Error('WebAssembly SIMD is not available here: use the js kernel');
@@ -65,12 +74,31 @@ interface Block {
  * A wasm kernel with its own memory. `initialParticles` sizes the memory up front (no grow, hence no
  * detached views, while allocations stay within it).
  */
-export function createWasmKernel(options: { initialParticles?: number } = {}): TurnKernel & { readonly memory: WasmMemory } {
-  const api = wasmApi();
+export function createWasmKernel(options: { initialParticles?: number } = {}): WasmTurnKernel {
   const module = kernelModule();
-  const initialBytes = HEAP_BASE + 16 * Math.ceil(options.initialParticles ?? 0) + 32;
-  const memory = new api!.Memory({ initial: Math.ceil(initialBytes / PAGE) });
-  const ex = new api!.Instance(module, { env: { memory } }).exports;
+  const memory = newMemory(options.initialParticles);
+  return kernelOver(memory, new (wasmApi()!.Instance)(module, { env: { memory } }));
+}
+
+/** As createWasmKernel, compiling and instantiating asynchronously: works on a page's main thread too. */
+export async function createWasmKernelAsync(options: { initialParticles?: number } = {}): Promise<WasmTurnKernel> {
+  const api = wasmApi();
+  if (!api || !wasmSimdSupported()) throw new Error('WebAssembly SIMD is not available here: use the js kernel');
+  moduleCache ??= await api.compile((bytesCache ??= buildKernelModule()));
+  const memory = newMemory(options.initialParticles);
+  return kernelOver(memory, await api.instantiate(moduleCache, { env: { memory } }));
+}
+
+/** A TurnKernel over its WebAssembly memory. */
+export type WasmTurnKernel = TurnKernel & { readonly memory: WasmMemory };
+
+function newMemory(initialParticles = 0): WasmMemory {
+  const initialBytes = HEAP_BASE + 16 * Math.ceil(initialParticles) + 32;
+  return new (wasmApi()!.Memory)({ initial: Math.ceil(initialBytes / PAGE) });
+}
+
+function kernelOver(memory: WasmMemory, instance: WasmInstance): WasmTurnKernel {
+  const ex = instance.exports;
   const fn = (name: string) => ex[name] as KernelFn;
   const kickFn = [0, 1, 2, 3, 4].map((k) => (k === 0 ? null : fn(kernelName(k, 'none'))));
   const kdLinear = [0, 1, 2, 3, 4].map((k) => fn(kernelName(k, 'linear')));
