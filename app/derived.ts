@@ -49,7 +49,9 @@ function computeView(m: MachineState): BucketView {
   const fp = fixedPoints(m);
   // Keep the fixed points that belong to the drawn bucket (one RF period around it).
   const lo = b.phiLeft - 1e-9, hi = b.phiRight + 1e-9;
-  const near = (phis: number[]) => phis.filter((p) => p >= lo && p <= hi).map((p) => dtOfPhase(m, p));
+  // Fixed points repeat every 2π of the main phase; both ends of a stationary bucket are the same point.
+  const near = (phis: number[]) =>
+    phis.flatMap((p) => [p - 2 * Math.PI, p, p + 2 * Math.PI]).filter((p) => p >= lo && p <= hi).map((p) => dtOfPhase(m, p));
   return {
     m, bucket: b, reason: null, sep: separatrix(m, b, 400),
     stableDt: near(fp.stable), unstableDt: near(fp.unstable), Qs: tune.Qs, fs: tune.fs,

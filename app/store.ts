@@ -6,7 +6,7 @@ import type { Setup } from '../core/setup/schema.ts';
 import { parseSetup, type SetupIssue } from '../core/setup/validate.ts';
 import { setIn, type PathSeg } from './paths.ts';
 import { defaultPreset } from './presets.ts';
-import type { DiagRow, RunFrame } from '../workers/protocol.ts';
+import type { DiagRow, ProfileRow, RunFrame } from '../workers/protocol.ts';
 import type { MatchedInfo } from '../core/beam/index.ts';
 
 export type RunStatus = 'starting' | 'ready' | 'running' | 'done' | 'error';
@@ -38,7 +38,7 @@ export interface AppState {
   /** Per-turn diagnostics since the beam was generated (appended in place; see logVersion). */
   log: DiagRow[];
   /** Line-density profiles at the logged turns, for the waterfall. */
-  profiles: { turn: number; profile: Float64Array }[];
+  profiles: ProfileRow[];
   logVersion: number;
   /** Matched-bunch numbers of the beam as generated (computed with it in the worker), null if not matched. */
   matched: MatchedInfo | null;

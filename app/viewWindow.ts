@@ -10,7 +10,7 @@ export const HIST_NY = 120;
 const BUCKET_MARGIN = 1.15;
 const BEAM_SIGMAS = 5;
 // When the bucket is far larger than the beam (near transition), cap the window at this many beam extents.
-const MAX_OVER_BEAM = 6;
+const MAX_OVER_BEAM = 3;
 // Refit when the wanted half-range leaves [current/REFIT, current·REFIT'].
 const GROW = 1.02;
 const SHRINK = 0.45;

@@ -6,6 +6,14 @@ import type { MatchedInfo } from '../core/beam/index.ts';
 /** One row of per-turn diagnostics (the core's record). */
 export type DiagRow = TurnDiagnostics;
 
+/** A line-density profile [1/s] at one turn, binned over [dtMin, dtMax). */
+export interface ProfileRow {
+  turn: number;
+  dtMin: number;
+  dtMax: number;
+  profile: Float64Array;
+}
+
 /** The window the histogram and profile are binned in. */
 export interface ViewWindow {
   dtMin: number;
@@ -38,8 +46,8 @@ export interface RunFrame {
   current: DiagRow;
   /** Rows logged during this call (every run.diagnosticsEvery turns). */
   rows: DiagRow[];
-  /** Line-density profiles at the logged turns (same window as `profile`). */
-  profiles: { turn: number; profile: Float64Array }[];
+  /** Line-density profiles at the logged turns, each with the window it was binned in. */
+  profiles: ProfileRow[];
   view: ViewWindow;
   /** histogram2d counts, row-major [dE bin][dt bin]. */
   hist: Float32Array;

@@ -7,7 +7,7 @@ import { computeDiagnostics, histogram2d, lineDensity } from '../core/diagnostic
 import { machineAtStart, type MachineState } from '../core/machine.ts';
 import type { Setup } from '../core/setup/schema.ts';
 import { Tracker } from '../core/tracker.ts';
-import type { DiagRow, RunFrame, RunRequest, TrackApi, ViewWindow } from './protocol.ts';
+import type { DiagRow, ProfileRow, RunFrame, RunRequest, TrackApi, ViewWindow } from './protocol.ts';
 
 let setup: Setup | null = null;
 let tracker: Tracker | null = null;
@@ -27,6 +27,10 @@ function profileOf(t: Tracker, s: Setup, v: ViewWindow): Float64Array {
   const out = new Float64Array(s.run.profileBins);
   lineDensity(t.bunch, v.dtMin, v.dtMax, out);
   return out;
+}
+
+function profileRow(t: Tracker, s: Setup, v: ViewWindow): ProfileRow {
+  return { turn: t.turn, dtMin: v.dtMin, dtMax: v.dtMax, profile: profileOf(t, s, v) };
 }
 
 // Package the current state; every typed array goes into the transfer list.
@@ -54,7 +58,7 @@ function start(s: Setup, v: ViewWindow, pointsMax: number): RunFrame {
   setup = s;
   tracker = new Tracker(s, bunch);
   const first = diagnose(tracker, s);
-  const f = frameOf([first], [{ turn: 0, profile: profileOf(tracker, s, v) }], v, pointsMax, 0, 0);
+  const f = frameOf([first], [profileRow(tracker, s, v)], v, pointsMax, 0, 0);
   f.matched = matched;
   return f;
 }
@@ -75,7 +79,7 @@ const api: TrackApi = {
       done++;
       if (t.turn % every === 0) {
         rows.push(diagnose(t, s));
-        profiles.push({ turn: t.turn, profile: profileOf(t, s, req.view) });
+        profiles.push(profileRow(t, s, req.view));
       }
       if (performance.now() - t0 > req.budgetMs) break;
     }

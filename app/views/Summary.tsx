@@ -48,7 +48,7 @@ export function Summary() {
           <Item id="eta" label="slip factor η" value={m.eta0} />
           <Item id="gamma" label="γ" value={m.gamma} />
           <Item id="f0" label="revolution frequency" value={m.f0} text={fmtFreq(m.f0)} />
-          <Item id="kinetic" label="kinetic energy" value={m.T} text={fmtEnergy(m.T)} />
+          <Item id="kinetic" label="kinetic energy" value={m.T} text={m.particle.A > 1 ? `${fmtEnergy(m.T)} (${fmtEnergy(m.T / m.particle.A)}/u)` : fmtEnergy(m.T)} title="per nucleon: divided by the mass number A" />
           <Item id="rms-length" label="beam rms length σt" value={cur?.rmsDt ?? NaN} text={cur ? fmtTime(cur.rmsDt) : '—'} />
           <Item id="rms-spread" label="beam rms spread σE" value={cur?.rmsDE ?? NaN} text={cur ? fmtEnergy(cur.rmsDE) : '—'} />
           <Item id="emittance" label="beam rms emittance" value={cur?.emittanceRms ?? NaN} text={cur ? `${fmt(cur.emittanceRms)} eV·s` : '—'} />
