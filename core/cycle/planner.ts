@@ -15,7 +15,7 @@ import { CycleTimeline } from './timeline.ts';
 export interface CycleOptions {
   /** Sample times, evenly spaced over the cycle (default 400). */
   samples?: number;
-  /** Cycle length [s] (default: the end of the programs, else run.turns turns). */
+  /** Cycle length [s] (default: run.turns turns or the end of the programs, whichever is later). */
   duration?: number;
   /** Filling factor above which the bucket counts as too small (default 0.8). */
   fillingLimit?: number;

@@ -34,7 +34,7 @@ export class CycleTimeline {
     this.stepper = new MachineStepper(setup);
     const end = programsEnd(progs);
     const runTime = setup.run.turns * this.stepper.state.T0;
-    this.duration = duration ?? (end > 0 ? end : runTime);
+    this.duration = duration ?? Math.max(end, runTime);
     if (!(this.duration > 0 && Number.isFinite(this.duration)))
       throw new RangeError(`cycle duration = ${this.duration} s: must be a finite number > 0`);
   }
