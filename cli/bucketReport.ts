@@ -2,7 +2,9 @@
 // Units are in every key name (eV, s, Hz, rad, deg, eV·s written eVs).
 import { computeBucket } from '../core/bucket.ts';
 import { matchBunch } from '../core/beam/index.ts';
+import { intensitySummary } from '../core/collective/summary.ts';
 import { machineAtStart } from '../core/machine.ts';
+import { radiationSummary } from '../core/radiation.ts';
 import type { Setup } from '../core/setup/schema.ts';
 import { smallAmplitudeTune } from '../core/synchrotron.ts';
 
@@ -27,6 +29,7 @@ export function bucketReport(setup: Setup): Record<string, unknown> {
     slipFactor2: m.eta1,
     energyGainPerTurn_eV: m.dEs,
     stableSlope: m.slope,
+    radiation: radiationSummary(setup, m),
   };
   if (m.noBucket) return { ...base, bucket: null, noBucket: m.noBucket };
   const tune = smallAmplitudeTune(m);
@@ -70,5 +73,5 @@ export function bucketReport(setup: Setup): Record<string, unknown> {
         'rms = sqrt(<dt²><dE²>-<dt·dE>²) without π; fourSigma = 4π·σt·σE; contour = area of the Hamiltonian contour bounding the bunch',
     };
   }
-  return { ...base, ...sync, bucket, matchedBunch };
+  return { ...base, ...sync, bucket, matchedBunch, intensity: intensitySummary(setup, m) };
 }

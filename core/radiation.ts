@@ -86,3 +86,23 @@ export function radiationInfo(m: MachineState, lat: RadiationLattice): Radiation
     JE: lat.JE, Cgamma: radiationConstant(p), Cq: quantumConstant(p),
   };
 }
+
+/** Radiation numbers for the `bucket` report (units in the key names), or null without a radiation block. */
+export function radiationSummary(setup: Setup, m: MachineState): Record<string, unknown> | null {
+  const lat = radiationLattice(setup);
+  if (!lat) return null;
+  const r = radiationInfo(m, lat);
+  return {
+    energyLossPerTurn_eV: r.U0,
+    partitionNumberE: r.JE,
+    dampingTimeAmplitude_s: r.tauE,
+    dampingTimeAmplitude_turns: r.tauETurns,
+    dampingTimeEmittance_s: r.tauEmittance,
+    naturalEnergySpread_relative: r.sigmaDelta,
+    naturalEnergySpread_eV: r.sigmaE,
+    naturalBunchLength_s: r.sigmaT,
+    Cgamma_m_per_GeV3: r.Cgamma * 1e27,
+    Cq_m: r.Cq,
+    note: 'τ_E is the amplitude damping time of synchrotron oscillations; σ_E² and the emittance damp with τ_E/2. Natural length for linear RF, no intensity.',
+  };
+}

@@ -11,6 +11,7 @@ import { computeBucket } from '../bucket.ts';
 import type { MachineState } from '../machine.ts';
 import { makeRng } from '../rng.ts';
 import type { Setup } from '../setup/schema.ts';
+import { generateSelfConsistentBeam } from '../collective/selfConsistent.ts';
 import { sampleCoasting } from './coasting.ts';
 import { matchBunch, sampleMatched, type MatchedInfo } from './matched.ts';
 import { linearlyMatchedSpread, sampleUnmatched } from './unmatched.ts';
@@ -26,7 +27,9 @@ export function generateBeam(setup: Setup, m: MachineState): { bunch: Bunch; mat
     const r = computeBucket(m);
     if (!r.ok) throw new Error(`beam.distribution.kind = matched: ${r.reason}; use a coasting beam instead`);
     matched = matchBunch(m, r.bucket, d.shape, d.size);
-    sampleMatched(m, r.bucket, d.shape, matched.scale, rng, bunch);
+    // With intensity and impedances: the self-consistent bunch in the well with its own field (matched stays the
+    // zero-intensity reference of the size request).
+    if (!generateSelfConsistentBeam(setup, m, bunch)) sampleMatched(m, r.bucket, d.shape, matched.scale, rng, bunch);
     if (singleGap(setup)) halfDrift(bunch, m);
   } else if (d.kind === 'unmatched') {
     if (m.noBucket) throw new Error(`beam.distribution.kind = unmatched: ${m.noBucket}; use a coasting beam instead`);

@@ -1,12 +1,12 @@
 // Matched beam with intensity: the setup's matched shape, solved self-consistently in the RF well plus the
 // induced voltage (haissinski.ts), then sampled. Units: dt in s, dE in eV.
 // Scale of G: for a gaussian in a ring with radiation, H0 = 2π·h·|η|·σ_δ² from the natural spread (the lepton
-// equilibrium); otherwise the scale of the zero-intensity bunch of the requested size (same energy spread for a
+// equilibrium; the size request is then ignored and `zeroIntensity` is the natural bunch); otherwise the scale of the zero-intensity bunch of the requested size (same energy spread for a
 // gaussian, same limiting H' for parabolic/flat), so the size request describes the bunch before intensity.
 import type { Bunch } from '../bunch.ts';
 import { makeBunch } from '../bunch.ts';
 import { computeBucket, type BucketInfo } from '../bucket.ts';
-import { matchBunch, type MatchedInfo } from '../beam/matched.ts';
+import { matchBunch, matchedNumbers, type MatchedInfo } from '../beam/matched.ts';
 import { makeWell } from '../beam/well.ts';
 import type { MatchedShape } from '../beam/shapes.ts';
 import type { MachineState } from '../machine.ts';
@@ -38,14 +38,14 @@ export function solveSelfConsistent(setup: Setup, m: MachineState): SelfConsiste
   const br = computeBucket(m);
   if (!br.ok) throw new Error(`beam.distribution.kind = matched: ${br.reason}`);
   const bucket = br.bucket;
-  const zero = matchBunch(m, bucket, d.shape, d.size);
-  let scale = zero.scale;
+  let zero = matchBunch(m, bucket, d.shape, d.size);
   const lat = radiationLattice(setup);
   if (lat && d.shape === 'gaussian') {
     const sd = naturalEnergySpread(m.particle, m.gamma, lat);
-    scale = 2 * Math.PI * m.h * Math.abs(m.eta0) * sd * sd;
+    zero = matchedNumbers(m, bucket, d.shape, 2 * Math.PI * m.h * Math.abs(m.eta0) * sd * sd); // the natural bunch
   }
-  const half = d.shape === 'gaussian' ? EXTENT_SIGMAS * zero.rmsLength * Math.sqrt(scale / zero.scale) : 0.5 * zero.contourLength;
+  const scale = zero.scale;
+  const half = d.shape === 'gaussian' ? EXTENT_SIGMAS * zero.rmsLength : 0.5 * zero.contourLength;
   const calc = makeInducedVoltage(model, m, windowGrid(model, m, -half, half));
   const solution = solveHaissinski(m, bucket, calc, {
     shape: d.shape, scale, bunchCharge: model.bunchCharge, bunches: model.bunches,
@@ -92,8 +92,8 @@ function semicircle(rng: Rng): number {
   return x;
 }
 
-/** The setup's beam with intensity: a new bunch sampled from the self-consistent solution, or null when it does not apply. Throws if the iteration does not converge. */
-export function generateSelfConsistentBeam(setup: Setup, m: MachineState): { bunch: Bunch; solved: SelfConsistentBunch } | null {
+/** The setup's beam with intensity sampled from the self-consistent solution into `out` (default: a new bunch), or null when it does not apply. Throws if the iteration does not converge. */
+export function generateSelfConsistentBeam(setup: Setup, m: MachineState, out?: Bunch): { bunch: Bunch; solved: SelfConsistentBunch } | null {
   const s = solveSelfConsistent(setup, m);
   if (!s) return null;
   if (!s.solution.converged)
@@ -102,7 +102,7 @@ export function generateSelfConsistentBeam(setup: Setup, m: MachineState): { bun
       `(residual ${s.solution.residual.toPrecision(3)} > collective.matchTolerance = ${setup.collective.matchTolerance}); ` +
       'the intensity may be above the threshold of a stationary solution',
     );
-  const bunch = makeBunch(setup.beam.particles);
+  const bunch = out ?? makeBunch(setup.beam.particles);
   sampleSelfConsistent(m, s, makeRng(setup.beam.seed), bunch);
   return { bunch, solved: s };
 }
