@@ -31,7 +31,7 @@ export type BucketTarget = { area: number } | { filling: number; emittance?: num
 /** Voltage programs (one per RF system, ratios kept) that hold the bucket area at the target along the setup's momentum program. */
 export function constantBucketVoltage(
   setup: Setup, target: BucketTarget, opts: { samples?: number; tolerance?: number; duration?: number } = {},
-): { area: number; programs: ProgramData<'voltage'>[] } {
+): { area: number; programs: (ProgramData<'voltage'> & { start: number })[] } {
   const area = 'area' in target ? target.area : (target.emittance ?? beamEmittance(setup).value) / target.filling;
   if (!(area > 0 && Number.isFinite(area))) throw new RangeError(`target bucket area = ${area} eV·s: must be a finite number > 0`);
   const tol = opts.tolerance ?? 0.005;
@@ -73,7 +73,7 @@ export function constantBucketVoltage(
 /** Fastest momentum program (p·c against time) from the setup's start to pcEnd [eV] keeping the bucket area ≥ emittance/filling with the setup's RF. */
 export function fastestRamp(
   setup: Setup, pcEnd: number, target: { filling: number; emittance?: number }, opts: { steps?: number } = {},
-): { area: number; program: ProgramData<'momentum'> } {
+): { area: number; program: ProgramData<'momentum'> & { start: number } } {
   const area = (target.emittance ?? beamEmittance(setup).value) / target.filling;
   if (!(area > 0 && Number.isFinite(area))) throw new RangeError(`target bucket area = ${area} eV·s: must be a finite number > 0`);
   const flat: Setup = { ...setup, energy: { ...setup.energy, ramp: { kind: 'flat' } } };
