@@ -61,6 +61,7 @@ describe('transition crossing', () => {
     expect(auto.events[0]).toMatch(/automatically: the slip factor changed sign .*γt = 3\)/);
     const none = keptFraction({ slope: 'rising' });
     expect(none.kept).toBeLessThan(0.2);
+    console.log(`transition: kept ${auto.kept} with the jump, ${none.kept} without`);
   });
 
   it('a jump at the set time of transition keeps the bunch, and the message says when', () => {
@@ -106,6 +107,7 @@ describe('transition crossing', () => {
     expect(checked).toBeGreaterThan(100);
     expect(worst).toBeLessThan(tol);
     expect(tol).toBeLessThan(0.1);
+    console.log(`ω_s² T_c³/|t|: worst deviation ${worst} over ${checked} turns (tolerance ${tol}), T_c = ${Tc} s`);
   });
 
   it('the planner flags a non-adiabatic interval of ±5^⅔·T_c around transition (α = |ω̇_s|/ω_s² = ½(T_c/|t|)^{3/2} = 0.1)', () => {
