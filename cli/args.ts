@@ -1,5 +1,6 @@
 // Command-line argument parsing: positional arguments plus --name value / --name=value options.
 import { parseArgs } from 'node:util';
+import { fmtNum } from '../core/setup/fields.ts';
 
 export class UsageError extends Error {}
 
@@ -15,6 +16,9 @@ const OPTIONS = {
   out: { type: 'string' },
   particles: { type: 'string' },
   format: { type: 'string' },
+  samples: { type: 'string' },
+  'filling-limit': { type: 'string' },
+  'adiabatic-limit': { type: 'string' },
   help: { type: 'boolean', short: 'h' },
 } as const;
 
@@ -35,5 +39,15 @@ export function intOption(opts: ParsedArgs['options'], name: string, min: number
   const v = Number(raw);
   if (typeof raw !== 'string' || !Number.isInteger(v) || v < min || v > max)
     throw new UsageError(`--${name} = ${String(raw)}: must be an integer in [${min}, ${max}]`);
+  return v;
+}
+
+/** Read a number option within [min, max], or undefined when absent. */
+export function numOption(opts: ParsedArgs['options'], name: string, min: number, max: number): number | undefined {
+  const raw = opts[name];
+  if (raw === undefined) return undefined;
+  const v = Number(raw);
+  if (typeof raw !== 'string' || raw.trim() === '' || !Number.isFinite(v) || v < min || v > max)
+    throw new UsageError(`--${name} = ${String(raw)}: must be a number in [${fmtNum(min)}, ${fmtNum(max)}]`);
   return v;
 }

@@ -3,7 +3,7 @@
 import { readFileSync, writeFileSync } from 'node:fs';
 import { formatIssue, parseSetupText } from '../core/setup/validate.ts';
 import type { Setup } from '../core/setup/schema.ts';
-import { intOption, parseCommandLine, UsageError } from './args.ts';
+import { intOption, numOption, parseCommandLine, UsageError } from './args.ts';
 import { bucketReport } from './bucketReport.ts';
 import { cycleCsv, cycleJson } from './cycle.ts';
 import { particlesCsv, trackSetup } from './track.ts';
@@ -11,7 +11,7 @@ import { particlesCsv, trackSetup } from './track.ts';
 const USAGE = `usage:
   phasewell bucket <setup.json>
   phasewell track <setup.json> --turns N [--every K] [--out diagnostics.csv] [--particles final.csv]
-  phasewell cycle <setup.json> [--format json|csv] [--out file]
+  phasewell cycle <setup.json> [--format json|csv] [--out file] [--samples N] [--filling-limit F] [--adiabatic-limit A]
 Results are for design exploration; machine protection and radiation safety follow local regulations and licensed practice.`;
 
 class InputError extends Error {}
@@ -56,7 +56,12 @@ function run(argv: string[]): number {
       const setup = loadSetup(a.positional[0]);
       const format = a.options.format ?? 'json';
       if (format !== 'json' && format !== 'csv') throw new UsageError(`--format = ${String(format)}: must be json or csv`);
-      const text = format === 'csv' ? cycleCsv(setup) : JSON.stringify(cycleJson(setup), null, 2) + '\n';
+      const opts = {
+        samples: intOption(a.options, 'samples', 2, 100_000, 400),
+        fillingLimit: numOption(a.options, 'filling-limit', 1e-6, 10),
+        adiabaticLimit: numOption(a.options, 'adiabatic-limit', 1e-9, 1e6),
+      };
+      const text = format === 'csv' ? cycleCsv(setup, opts) : JSON.stringify(cycleJson(setup, opts), null, 2) + '\n';
       if (typeof a.options.out === 'string') writeFileSync(a.options.out, text);
       else process.stdout.write(text);
       return 0;
