@@ -22,28 +22,41 @@ export function binCentres(g: BinGrid): Float64Array {
   return c;
 }
 
+// Loops below work on arrays with one guard cell at each end (index j = bin + 1), so a particle in an outer half
+// bin needs no branch: its share beyond the edge lands in the guard cell and is folded back (deposit) or reads
+// the edge value (kick). x = dt/Δ − e0/Δ + ½ is ≥ ½ inside the window, so truncation (x | 0) is the floor.
+let guard = new Float64Array(0);
+let cells = new Float64Array(0);
+
 /** Deposit weight w per particle of dt[0..n) into out (cleared first); returns how many fell outside the window. */
 export function depositLinear(dt: Float64Array, n: number, g: BinGrid, w: number, out: Float64Array): number {
   const nb = g.nb;
+  if (cells.length < 2 * (nb + 2)) cells = new Float64Array(2 * (nb + 2));
+  const c = cells;
+  c.fill(0, 0, 2 * (nb + 2));
   const inv = 1 / g.delta;
-  const x0 = g.e0 * inv + 0.5; // x = dt/Δ − x0 is the position in units of bins from centre 0
-  const last = nb - 1;
-  out.fill(0);
+  const x0 = g.e0 * inv - 0.5; // x = dt/Δ − x0: centre of bin i at x = i + 1
   let outside = 0;
+  // Per cell [k, k+1): the count and Σf. Linear weights follow afterwards, (count − Σf) to k and Σf to k+1;
+  // one pair of adjacent stores per particle runs about twice as fast as two scattered weighted stores.
   for (let i = 0; i < n; i++) {
     const x = dt[i] * inv - x0;
-    if (!(x >= -0.5 && x < last + 0.5)) {
+    if (!(x >= 0.5 && x < nb + 0.5)) {
       outside++;
       continue;
     }
-    if (x <= 0) out[0] += w;
-    else if (x >= last) out[last] += w;
-    else {
-      const k = Math.floor(x);
-      const f = x - k;
-      out[k] += w * (1 - f);
-      out[k + 1] += w * f;
-    }
+    const k = x | 0;
+    const j = k + k;
+    c[j] += 1;
+    c[j + 1] += x - k;
+  }
+  out.fill(0);
+  for (let k = 0; k <= nb; k++) {
+    const cnt = c[2 * k], sf = c[2 * k + 1];
+    // index k (guard-shifted) is bin k − 1
+    const lo = k === 0 ? 0 : k - 1, hi = k === nb ? nb - 1 : k;
+    out[lo] += w * (cnt - sf);
+    out[hi] += w * sf;
   }
   return outside;
 }
@@ -51,24 +64,22 @@ export function depositLinear(dt: Float64Array, n: number, g: BinGrid, w: number
 /** Kick dE[i] += v(dt[i]) with v linear between the bin centres (constant in the outer half bins, 0 outside); returns Σ kicks [eV]. */
 export function kickLinear(dt: Float64Array, dE: Float64Array, n: number, g: BinGrid, v: Float64Array): number {
   const nb = g.nb;
+  if (guard.length < nb + 2) guard = new Float64Array(nb + 2);
+  const v2 = guard;
+  for (let i = 0; i < nb; i++) v2[i + 1] = v[i];
+  v2[0] = v[0];
+  v2[nb + 1] = v[nb - 1];
   const inv = 1 / g.delta;
-  const x0 = g.e0 * inv + 0.5;
-  const last = nb - 1;
-  const vFirst = v[0], vLast = v[last];
+  const x0 = g.e0 * inv - 0.5;
   let sum = 0;
   for (let i = 0; i < n; i++) {
     const x = dt[i] * inv - x0;
-    let k: number;
-    if (!(x >= -0.5 && x < last + 0.5)) continue;
-    if (x <= 0) k = vFirst;
-    else if (x >= last) k = vLast;
-    else {
-      const j = Math.floor(x);
-      const f = x - j;
-      k = v[j] + f * (v[j + 1] - v[j]);
-    }
-    dE[i] += k;
-    sum += k;
+    if (!(x >= 0.5 && x < nb + 0.5)) continue;
+    const k = x | 0;
+    const a = v2[k];
+    const kick = a + (x - k) * (v2[k + 1] - a);
+    dE[i] += kick;
+    sum += kick;
   }
   return sum;
 }
