@@ -54,9 +54,9 @@ export function wasmSimdSupported(): boolean {
 }
 
 /**
- * The compiled kernel module, compiled synchronously on first use (fine in Node and in workers). Chromium
- * refuses synchronous compiles and instantiations of modules over 4 kB on a page's main thread: there, use
- * createWasmKernelAsync (which compiles and instantiates asynchronously).
+ * The compiled kernel module, compiled synchronously on first use (Node, workers; Chromium 156 here also
+ * accepted it on a page's main thread). Browsers have refused synchronous compiles of modules over 4 kB on the
+ * main thread (the module is ~26 kB): createWasmKernelAsync avoids the question.
  */
 export function kernelModule(): object {
   const api = wasmApi();
