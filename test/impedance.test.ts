@@ -5,6 +5,7 @@ import { generateBeam } from '../core/beam/index.ts';
 import { E_CHARGE, Z0_OHM } from '../core/constants.ts';
 import { centroidSpectrum } from '../core/diagnostics/index.ts';
 import { impedanceAt, impedancesOf, resonatorWake, type Resonator } from '../core/collective/impedance.ts';
+import { importImpedanceCsv } from '../core/collective/impedanceCsv.ts';
 import { solveSelfConsistent } from '../core/collective/selfConsistent.ts';
 import { machineAtStart } from '../core/machine.ts';
 import { parseSetup } from '../core/setup/validate.ts';
@@ -63,6 +64,23 @@ describe('impedance models', () => {
     expect(z[1]).toBeCloseTo(1, 12);
     impedanceAt(t, 2 * Math.PI * 5e6, ctx, z);
     expect([z[0], z[1]]).toEqual([0, 0]);
+  });
+});
+
+describe('impedance table from CSV', () => {
+  it('converts units, flips Im Z for the physics convention and names bad lines', () => {
+    const text = '# measured (invented numbers)\nfrequency_GHz,re_kOhm,im_Ohm\n0.5,1.5,20\n1,2,-30\n';
+    const e = importImpedanceCsv(text, 'engineering');
+    expect(e.ok && e.table.frequency).toEqual([0.5e9, 1e9]);
+    expect(e.ok && e.table.re).toEqual([1500, 2000]);
+    expect(e.ok && e.table.im).toEqual([20, -30]);
+    // e^{−iωt} texts: Im Z changes sign (PHYSICS.md §12).
+    const p = importImpedanceCsv(text, 'physics');
+    expect(p.ok && p.table.im).toEqual([-20, 30]);
+    const bad = importImpedanceCsv('frequency_GHz,re_Ohm,im_Ohm\n1,2,3\n0.5,x,1\n', 'engineering');
+    expect(!bad.ok && bad.errors.map((i) => i.line)).toEqual([3]);
+    const head = importImpedanceCsv('f,re,im\n1,2,3\n2,3,4\n', 'engineering');
+    expect(!head.ok && head.errors[0].message).toMatch(/expected frequency_<Hz/);
   });
 });
 

@@ -10,3 +10,4 @@ export { solveHaissinski, type HaissinskiOptions, type HaissinskiResult } from '
 export { generateSelfConsistentBeam, sampleSelfConsistent, solveSelfConsistent, type SelfConsistentBunch } from './selfConsistent.ts';
 export { distortedWell, impedanceLoss, voltagesOnGrid, type DistortedWell } from './report.ts';
 export { intensitySummary } from './summary.ts';
+export { importImpedanceCsv, type ImpedanceCsvIssue, type ImpedanceCsvResult, type ImpedanceTableSetup } from './impedanceCsv.ts';
