@@ -4,7 +4,7 @@
 //   kick:   acc = A_0·sin(φ_0 + w_0·dt); acc = acc + A_k·sin(φ_k + w_k·dt) …;  dE = dE + (acc − dEsync)
 //   linear: dt = dt + slip·dE
 //   exact:  ε = dE/E_s, w = ε(2+ε), u = w/β², s = √max(1+u, 0), D = 1+s, B = (2+ε)·D + u,
-//           Q = α0·D² + u·(α1·D + α2·u),  dt = dt + period·((1+ε)·u·Q·B − (w/(β²γ²))·D⁴)/(s·D³·B)
+//           Q = α0·D² + u·(α1·D + α2·u),  dt = dt + period·(((1+ε)·u)·(Q·B) − (w/(β²γ²))·(D²·D²))/((s·B)·(D²·D))
 //           This is PHYSICS.md §3, T/T_s − 1 = [(1+ε)(α0δ+α1δ²+α2δ³) − w/(β²γ²(2+ε+δ))]/(1+δ) with
 //           δ = u/D, 1+δ = s (since (1+δ)² = 1+u) and (2+ε+δ) = B/D, over one common denominator:
 //           one division instead of three (division and square root share one slow unit). No cancellation
@@ -88,7 +88,7 @@ export function exactRelative(e: number, invEs: number, invB2: number, invB2G2: 
   const D2 = D * D;
   const B = (2 + eps) * D + u;
   const Q = a0 * D2 + u * (a1 * D + a2 * u);
-  return ((1 + eps) * u * Q * B - w * invB2G2 * (D2 * D2)) / (s * (D2 * D) * B);
+  return ((1 + eps) * u * (Q * B) - w * invB2G2 * (D2 * D2)) / (s * B * (D2 * D));
 }
 
 function kick1(dt: Float64Array, dE: Float64Array, n: number, sin: Sine, a0: number, w0: number, p0: number, sync: number): void {
