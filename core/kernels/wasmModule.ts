@@ -1,15 +1,18 @@
 // Generator of the WebAssembly SIMD (f64x2) turn kernels: this TypeScript is the source of truth, and the binary
-// is assembled from it at load time (a few kB in well under a millisecond), so nothing binary is committed.
+// is assembled from it at load time (~26 kB, ~10 ms once per process), so nothing binary is committed and there is no
+// build step (`npm ci` + `npm test` need nothing beyond Node).
 // Units as in core/kernels/js.ts; the per-particle operations and their order are exactly those of js.ts with the
 // polynomial sine of sine.ts, two particles per instruction, so the two agree bit for bit.
 //
-// Module layout: imports env.memory; every exported function has the type (dtPtr, dEPtr, n: i32) → i32 and reads
-// its parameters from the block at byte PARAMS (see PARAM below), splatted into v128 locals before the loop.
+// Module layout: imports env.memory (shared or not); every exported function has the type
+// (dtPtr, dEPtr, n: i32) → i32 (byte addresses of the columns) and reads its parameters from the block at
+// byte 0 (PARAM below), written by core/kernels/wasm.ts before each call.
 //   kick_<k>            k = 1..4 RF systems, returns 0
 //   drift_linear/exact  returns the number of particles outside the limits
 //   kd_linear_<k>, kd_exact_<k>   fused kick + drift, returns the number outside the limits
 // Pairs [2j, 2j+1] run through v128 loads/stores; an odd last particle goes through the same code with
 // v128.load64_zero / v128.store64_lane, so the particle at index n (a lost one) is never touched.
+// The loss count: the lane mask of "inside" (all ones) is subtracted from an i64x2 counter, no branch.
 import { INV_PI, PI_HI, PI_LO, ROUND_MAGIC, SIN_COEFFS } from './sine.ts';
 
 /**
@@ -39,10 +42,12 @@ export function kernelName(rf: number, drift: DriftKind): string {
   return rf === 0 ? `drift_${drift}` : `kd_${drift}_${rf}`;
 }
 
-type Code = number[];
+// Code is a tree of bytes, flattened once per section: spreading at every nesting level copied quadratically.
+type Code = (number | Code)[];
+const flat = (c: Code): number[] => c.flat(Infinity as 1) as number[];
 
-function uleb(v: number): Code {
-  const out: Code = [];
+function uleb(v: number): number[] {
+  const out: number[] = [];
   do {
     let b = v & 0x7f;
     v >>>= 7;
@@ -52,8 +57,8 @@ function uleb(v: number): Code {
   return out;
 }
 
-function sleb(v: number): Code {
-  const out: Code = [];
+function sleb(v: number): number[] {
+  const out: number[] = [];
   for (;;) {
     const b = v & 0x7f;
     v >>= 7;
@@ -64,18 +69,21 @@ function sleb(v: number): Code {
 
 /** v128.const holding x in both lanes (little-endian f64 bytes). */
 const splat = (x: number): Code => [...simd(0x0c), ...new Uint8Array(new Float64Array([x, x]).buffer)];
-const str = (s: string): Code => [...uleb(s.length), ...[...s].map((ch) => ch.charCodeAt(0))];
-const vec = (items: Code[]): Code => [...uleb(items.length), ...items.flat()];
-const section = (id: number, body: Code): Code => [id, ...uleb(body.length), ...body];
+const str = (s: string): Code => [uleb(s.length), [...s].map((ch) => ch.charCodeAt(0))];
+const vec = (items: Code[]): Code => [uleb(items.length), items];
+const section = (id: number, body: Code): Code => {
+  const bytes = flat(body);
+  return [id, uleb(bytes.length), bytes];
+};
 
 // --- instructions (names as in the WebAssembly text format) ---
 const I32 = 0x7f, V128 = 0x7b;
-const simd = (op: number): Code => [0xfd, ...uleb(op)];
-const get = (l: number): Code => [0x20, ...uleb(l)];
-const set = (l: number, v: Code): Code => [...v, 0x21, ...uleb(l)];
-const i32c = (v: number): Code => [0x41, ...sleb(v)];
-const bin = (op: Code) => (a: Code, b: Code): Code => [...a, ...b, ...op];
-const un = (op: Code) => (a: Code): Code => [...a, ...op];
+const simd = (op: number): Code => [0xfd, uleb(op)];
+const get = (l: number): Code => [0x20, uleb(l)];
+const set = (l: number, v: Code): Code => [v, 0x21, uleb(l)];
+const i32c = (v: number): Code => [0x41, sleb(v)];
+const bin = (op: Code) => (a: Code, b: Code): Code => [a, b, op];
+const un = (op: Code) => (a: Code): Code => [a, op];
 const f64x2 = {
   max: bin(simd(0xf5)), abs: un(simd(0xec)), sqrt: un(simd(0xef)), nearest: un(simd(0x94)),
   add: bin(simd(0xf0)), sub: bin(simd(0xf1)), mul: bin(simd(0xf2)), div: bin(simd(0xf3)),
@@ -83,14 +91,14 @@ const f64x2 = {
 };
 const v128and = bin(simd(0x4e));
 const v128xor = bin(simd(0x51));
-const i64x2shl = (a: Code, bits: number): Code => [...a, ...i32c(bits), ...simd(0xcb)];
+const i64x2shl = (a: Code, bits: number): Code => [a, i32c(bits), simd(0xcb)];
 const i64x2sub = bin(simd(0xd1));
-const i64x2lane = (a: Code, lane: number): Code => [...a, ...simd(0x1d), lane];
+const i64x2lane = (a: Code, lane: number): Code => [a, simd(0x1d), lane];
 const i32 = { add: bin([0x6a]), sub: bin([0x6b]), and: bin([0x71]), shl: bin([0x74]), ltu: bin([0x49]), wrapI64: un([0xa7]) };
-const v128load = (addr: Code): Code => [...addr, ...simd(0x00), 4, 0];
-const v128store = (addr: Code, v: Code): Code => [...addr, ...v, ...simd(0x0b), 4, 0];
-const load64zero = (addr: Code): Code => [...addr, ...simd(0x5d), 3, 0];
-const store64lane0 = (addr: Code, v: Code): Code => [...addr, ...v, ...simd(0x5b), 3, 0, 0];
+const v128load = (addr: Code): Code => [addr, simd(0x00), 4, 0];
+const v128store = (addr: Code, v: Code): Code => [addr, v, simd(0x0b), 4, 0];
+const load64zero = (addr: Code): Code => [addr, simd(0x5d), 3, 0];
+const store64lane0 = (addr: Code, v: Code): Code => [addr, v, simd(0x5b), 3, 0, 0];
 
 // One kernel function. Locals: params 0..2, then i32 locals, then v128 locals (declared in that order).
 function kernelBody(rf: number, drift: DriftKind): Code {
@@ -105,14 +113,14 @@ function kernelBody(rf: number, drift: DriftKind): Code {
   const nV128 = next - firstV;
   const { add, sub, mul, div } = f64x2;
   const g = get;
-  const P = (offset: number): Code => [...get(BASE), ...simd(0x0a), 3, ...uleb(offset)]; // v128.load64_splat
+  const P = (offset: number): Code => [get(BASE), simd(0x0a), 3, uleb(offset)]; // v128.load64_splat
   const ZERO = splat(0), ONE = splat(1), TWO = splat(2), MAGIC = splat(ROUND_MAGIC), INVPI = splat(INV_PI), PIHI = splat(PI_HI), PILO = splat(PI_LO);
   const C = SIN_COEFFS.map(splat);
   const A = (k: number) => P(PARAM.A + 8 * k), W = (k: number) => P(PARAM.W + 8 * k), PH = (k: number) => P(PARAM.PHI + 8 * k);
   const SYNC = P(PARAM.SYNC), SLIP = P(PARAM.SLIP), PERIOD = P(PARAM.PERIOD), INVES = P(PARAM.INV_ES), INVB2 = P(PARAM.INV_B2);
   const INVB2G2 = P(PARAM.INV_B2G2), AL0 = P(PARAM.AL0), AL1 = P(PARAM.AL1), AL2 = P(PARAM.AL2);
   const DTMAX = P(PARAM.DT_MAX), DEMIN = P(PARAM.DE_MIN), DEMAX = P(PARAM.DE_MAX);
-  const setup: Code[] = [set(BASE, [...i32c(0), 0x28, 2, ...uleb(PARAM.ZERO_I32)])]; // i32.load
+  const setup: Code[] = [set(BASE, [i32c(0), 0x28, 2, uleb(PARAM.ZERO_I32)])]; // i32.load
 
   // The map for the two particles in T, E (as sinPoly and js.ts, operation for operation).
   const kickBody: Code[] = [];
@@ -212,9 +220,8 @@ function kernelBody(rf: number, drift: DriftKind): Code {
       : i32c(0),
     [0x0b],
   ];
-  const locals = vec([[...uleb(nI32), I32], [...uleb(nV128), V128]]);
-  const fn = [...locals, ...code.flat()];
-  return [...uleb(fn.length), ...fn];
+  const fn = flat([vec([[uleb(nI32), I32], [uleb(nV128), V128]]), code]);
+  return [uleb(fn.length), fn];
 }
 
 /** All kernels as [name, rf, drift]. */
@@ -237,5 +244,5 @@ export function buildKernelModule(options: { shared?: boolean; maxPages?: number
   const funcs = section(3, vec(list.map(() => [0])));
   const exports = section(7, vec(list.map(([name], i) => [...str(name), 0x00, ...uleb(i)])));
   const code = section(10, vec(list.map(([, rf, d]) => kernelBody(rf, d))));
-  return new Uint8Array([0x00, 0x61, 0x73, 0x6d, 0x01, 0x00, 0x00, 0x00, ...type, ...imports, ...funcs, ...exports, ...code]);
+  return new Uint8Array(flat([0x00, 0x61, 0x73, 0x6d, 0x01, 0x00, 0x00, 0x00, type, imports, funcs, exports, code]));
 }
