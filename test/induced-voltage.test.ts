@@ -8,6 +8,8 @@ import { E_CHARGE } from '../core/constants.ts';
 import { erf } from '../core/beam/erf.ts';
 import { InducedVoltage } from '../core/collective/inducedVoltage.ts';
 import type { Resonator } from '../core/collective/impedance.ts';
+import { distortedWell, impedanceLoss, voltagesOnGrid } from '../core/collective/report.ts';
+import { solveSelfConsistent } from '../core/collective/selfConsistent.ts';
 import { SpectrumPath } from '../core/collective/spectrum.ts';
 import { inducedKick } from '../core/elements/inducedKick.ts';
 import { machineAtStart } from '../core/machine.ts';
@@ -176,3 +178,51 @@ function tableOf(r: Resonator) {
   }
   return { f, re, im };
 }
+
+describe('reports: voltages, distorted well and energy balance', () => {
+  // Fictional proton ring, stationary below transition, one RF system.
+  const make = (extra: Record<string, unknown>) => {
+    const r = parseSetup({
+      version: 1, title: 'test (fictional)', particle: { kind: 'proton' }, ring: { circumference: 300, gammaT: 6 },
+      energy: { start: { quantity: 'kinetic', value: 2e9 } }, rf: { systems: [{ harmonic: 8, voltage: 2e5 }] },
+      beam: { distribution: { kind: 'matched', shape: 'gaussian', size: { by: 'rmsLength', value: 8e-9 } }, particles: 10 },
+      ...extra,
+    });
+    if (!r.ok) throw new Error(JSON.stringify(r.errors));
+    return r.setup;
+  };
+
+  it('without a beam field: RF voltage V·sin(φs + ω_rf·dt) and the separatrix height of PHYSICS.md §7', () => {
+    const m = machineAtStart(make({}));
+    const Trf = (2 * Math.PI) / m.omegaRf;
+    const v = voltagesOnGrid(m, null, [0, Trf / 4, -Trf / 8]);
+    expect(v.rf[1]).toBeCloseTo(2e5 * Math.sin(m.phiS + Math.PI / 2), 6);
+    expect(v.induced[2]).toBe(0);
+    const w = distortedWell(m, null, -0.75 * Trf, 0.75 * Trf, 20001);
+    // Stationary bucket: ΔE_max = β²E·sqrt(2ZV/(πβ²E·h|η|)) (PHYSICS.md §7, Y = 1); grid step 1e-4 of the period.
+    const b2E = m.beta ** 2 * m.Es;
+    const dEmax = b2E * Math.sqrt((2 * 2e5) / (Math.PI * b2E * m.h * Math.abs(m.eta0)));
+    expect(Math.max(...w.separatrix!.dE) / dEmax).toBeCloseTo(1, 3);
+    expect(Math.abs(w.bottom)).toBeLessThan(1e-4 * Trf);
+  });
+
+  it('a stationary bunch in a lossy impedance: mean RF gain equals the energy lost to the impedance (energy balance, common practice)', () => {
+    const s = make({
+      intensity: { particlesPerBunch: 3e12 },
+      impedances: [{ kind: 'resonator', shuntImpedance: 2e4, quality: 1, frequency: 2e8 }],
+      collective: { bins: 1024, smoothing: 0 },
+    });
+    const m = machineAtStart(s);
+    const sc = solveSelfConsistent(s, m)!;
+    expect(sc.solution.converged).toBe(true);
+    const { lambda } = sc.solution, c = sc.calc.centres, d = sc.calc.grid.delta;
+    let gain = 0; // ∫λ·F_rf dt: mean energy given by the RF per turn [eV]
+    for (let i = 0; i < c.length; i++) gain += lambda[i] * (2e5 * Math.sin(m.phiS + m.omegaRf * c[i]) - m.dEs) * d;
+    const loss = impedanceLoss(sc.calc, 3e12 * E_CHARGE, 3e12).lossPerParticle;
+    expect(loss).toBeGreaterThan(0);
+    expect(gain / loss).toBeCloseTo(1, 2);
+    // The well bottom moves to where the RF makes up the loss: F_rf(bottom) + Z·V_ind(bottom) = 0, with F_rf > 0 there.
+    const w = distortedWell(m, sc.calc, sc.calc.grid.e0, sc.calc.grid.e0 + sc.calc.grid.nb * d, 4001);
+    expect(2e5 * Math.sin(m.phiS + m.omegaRf * w.bottom) + sc.calc.voltageAt(w.bottom)).toBeCloseTo(0, 0);
+  });
+});
