@@ -14,15 +14,12 @@
 //   loss:   count the particles with !(|dt| ≤ dtMax and dEmin ≤ dE ≤ dEmax) after the pass.
 // Hot loops take every parameter as an argument (PERF.md: module-scope reads in the loop halve the speed).
 import { sinPoly } from './sine.ts';
-import { checkColumns, checkKick, type DriftParams, type KickParams, type TurnKernel } from './types.ts';
+import { checkColumns, checkKick, type KickParams, type TurnKernel } from './types.ts';
 
 type Sine = (x: number) => number;
 
-/** Scalars of the exact drift derived once per call. */
-export function exactConstants(d: DriftParams): { invEs: number; invB2: number; invB2G2: number } {
-  const invB2 = 1 / d.beta2;
-  return { invEs: 1 / d.Es, invB2, invB2G2: invB2 / d.gamma2 };
-}
+// Scalars of the exact drift derived once per call, written inline (no object per call):
+//   invEs = 1 / Es, invB2 = 1 / beta2, invB2G2 = 1 / beta2 / gamma2   (the same expressions in wasm.ts)
 
 /** The JavaScript kernel; sine = 'poly' (default, same bits as wasm) or 'native' (Math.sin). */
 export function createJsKernel(options: { sine?: 'poly' | 'native' } = {}): TurnKernel {
@@ -43,11 +40,11 @@ export function createJsKernel(options: { sine?: 'poly' | 'native' } = {}): Turn
         kick4(cols.dt, cols.dE, n, sin, kick);
         return driftLinear(cols.dt, cols.dE, n, drift.slip, limits.dtMax, lo, limits.dEmax);
       }
-      const x = exactConstants(drift);
-      if (c === 1) return kd1Exact(cols.dt, cols.dE, n, sin, A[0], w[0], p[0], kick.dEsync, drift.period, x.invEs, x.invB2, x.invB2G2, drift.alpha0, drift.alpha1, drift.alpha2, limits.dtMax, lo, limits.dEmax);
+      const invEs = 1 / drift.Es, invB2 = 1 / drift.beta2, invB2G2 = 1 / drift.beta2 / drift.gamma2;
+      if (c === 1) return kd1Exact(cols.dt, cols.dE, n, sin, A[0], w[0], p[0], kick.dEsync, drift.period, invEs, invB2, invB2G2, drift.alpha0, drift.alpha1, drift.alpha2, limits.dtMax, lo, limits.dEmax);
       if (c === 2) kick2(cols.dt, cols.dE, n, sin, A[0], w[0], p[0], A[1], w[1], p[1], kick.dEsync);
       else kick4(cols.dt, cols.dE, n, sin, kick);
-      return driftExact(cols.dt, cols.dE, n, drift.period, x.invEs, x.invB2, x.invB2G2, drift.alpha0, drift.alpha1, drift.alpha2, limits.dtMax, lo, limits.dEmax);
+      return driftExact(cols.dt, cols.dE, n, drift.period, invEs, invB2, invB2G2, drift.alpha0, drift.alpha1, drift.alpha2, limits.dtMax, lo, limits.dEmax);
     },
     kick(cols, n, kick) {
       checkColumns(cols, n);
@@ -61,8 +58,7 @@ export function createJsKernel(options: { sine?: 'poly' | 'native' } = {}): Turn
       checkColumns(cols, n);
       const lo = limits.dEmin ?? -limits.dEmax;
       if (drift.kind === 'linear') return driftLinear(cols.dt, cols.dE, n, drift.slip, limits.dtMax, lo, limits.dEmax);
-      const x = exactConstants(drift);
-      return driftExact(cols.dt, cols.dE, n, drift.period, x.invEs, x.invB2, x.invB2G2, drift.alpha0, drift.alpha1, drift.alpha2, limits.dtMax, lo, limits.dEmax);
+      return driftExact(cols.dt, cols.dE, n, drift.period, 1 / drift.Es, 1 / drift.beta2, 1 / drift.beta2 / drift.gamma2, drift.alpha0, drift.alpha1, drift.alpha2, limits.dtMax, lo, limits.dEmax);
     },
     syncGain(kick) {
       // The kick of a particle at dt = 0 with dEsync = 0 is exactly the accumulated Σ A_k·sin φ_k.

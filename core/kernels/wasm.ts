@@ -8,7 +8,6 @@
 // allocate everything first, or rebuild such wrappers from the Columns object after an allocation.
 // Columns not allocated by this kernel are rejected with an error (the kernel cannot reach other memory).
 import { checkColumns, checkKick, MAX_RF, type Columns, type DriftParams, type KickParams, type Limits, type TurnKernel } from './types.ts';
-import { exactConstants } from './js.ts';
 import { buildKernelModule, HEAP_BASE, kernelName, PARAM, SCRATCH } from './wasmModule.ts';
 
 // The few WebAssembly declarations we need (core compiles with lib ES2022, which has none).
@@ -137,6 +136,7 @@ function kernelOver(memory: WasmMemory, instance: WasmInstance): WasmTurnKernel 
   }
 
   function release(b: Block): void {
+    if (b.bytes === 0) return;
     let i = 0;
     while (i < free.length && free[i].offset < b.offset) i++;
     free.splice(i, 0, { ...b });
@@ -177,11 +177,10 @@ function kernelOver(memory: WasmMemory, instance: WasmInstance): WasmTurnKernel 
     const p = params;
     if (d.kind === 'linear') p[PARAM.SLIP / 8] = d.slip;
     else {
-      const x = exactConstants(d);
       p[PARAM.PERIOD / 8] = d.period;
-      p[PARAM.INV_ES / 8] = x.invEs;
-      p[PARAM.INV_B2 / 8] = x.invB2;
-      p[PARAM.INV_B2G2 / 8] = x.invB2G2;
+      p[PARAM.INV_ES / 8] = 1 / d.Es; // the same expressions as js.ts
+      p[PARAM.INV_B2 / 8] = 1 / d.beta2;
+      p[PARAM.INV_B2G2 / 8] = 1 / d.beta2 / d.gamma2;
       p[PARAM.AL0 / 8] = d.alpha0;
       p[PARAM.AL1 / 8] = d.alpha1;
       p[PARAM.AL2 / 8] = d.alpha2;
