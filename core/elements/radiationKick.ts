@@ -6,9 +6,10 @@
 // A = x² + y² (normalised), and one turn changes A by ((1−d)² − 1)·y² + n²ξ², i.e. ⟨ΔA⟩ = −d·A + n²; the
 // equilibrium A = n²/d must give ⟨dE²⟩ = σ_E², so n² = 2d·σ_E² = 4σ_E²·T0/τ_E (first order in d).
 // σ_E = σ_δ·E_s (β ≈ 1) from core/radiation.ts; U0, τ_E and σ_E follow E_s turn by turn.
-// Normal deviates: Box–Muller on xorshift128 uniforms (G. Marsaglia, J. Stat. Softw. 8 (2003) 14; period 2^128 − 1),
-// seeded from the injected generator; inlined because a generator call per particle per turn tripled the turn time.
-// Uniforms have 32-bit resolution, so |ξ| ≤ sqrt(−2 ln 2^−32) ≈ 6.7: tails beyond are cut (irrelevant for diffusion).
+// Normal deviates: polar method (G. Marsaglia and T.A. Bray, SIAM Review 6 (1964) 260) on xorshift128 uniforms
+// (G. Marsaglia, J. Stat. Softw. 8 (2003) 14; period 2^128 − 1), seeded from the injected generator; inlined because
+// a generator call per particle per turn tripled the turn time. Uniforms have 32-bit resolution, so the far tails
+// (|ξ| beyond ≈ 6.5) are cut: irrelevant for the diffusion, which depends on the variance.
 import type { Bunch } from '../bunch.ts';
 import type { MachineState } from '../machine.ts';
 import { energyLossPerTurn, naturalEnergySpread, radiationLattice, type RadiationLattice } from '../radiation.ts';
@@ -46,24 +47,29 @@ function scale(dE: Float64Array, n: number, f: number): void {
   for (let i = 0; i < n; i++) dE[i] *= f;
 }
 
-const TWO_PI = 2 * Math.PI;
 const U32 = 1 / 4294967296;
 
-// dE ← f·dE + noise·ξ, two deviates per Box–Muller pair; xs is the xorshift128 state, updated in place.
+// dE ← f·dE + noise·ξ, two deviates per accepted pair of the polar method (Marsaglia–Bray: no sine or cosine,
+// about 21 % of pairs rejected); xs is the xorshift128 state, updated in place.
 function dampAndKick(dE: Float64Array, n: number, f: number, noise: number, xs: Uint32Array): void {
   let x = xs[0], y = xs[1], z = xs[2], w = xs[3];
+  const S = 2 * U32;
   for (let i = 0; i < n; i += 2) {
-    let t = x ^ (x << 11);
-    x = y; y = z; z = w;
-    w = (w ^ (w >>> 19) ^ (t ^ (t >>> 8))) >>> 0;
-    const u1 = (w + 1) * U32; // (0, 1]
-    t = x ^ (x << 11);
-    x = y; y = z; z = w;
-    w = (w ^ (w >>> 19) ^ (t ^ (t >>> 8))) >>> 0;
-    const r = noise * Math.sqrt(-2 * Math.log(u1));
-    const a = TWO_PI * w * U32;
-    dE[i] = f * dE[i] + r * Math.cos(a);
-    if (i + 1 < n) dE[i + 1] = f * dE[i + 1] + r * Math.sin(a);
+    let a: number, b: number, r: number;
+    do {
+      let t = x ^ (x << 11);
+      x = y; y = z; z = w;
+      w = (w ^ (w >>> 19) ^ (t ^ (t >>> 8))) >>> 0;
+      a = w * S - 1;
+      t = x ^ (x << 11);
+      x = y; y = z; z = w;
+      w = (w ^ (w >>> 19) ^ (t ^ (t >>> 8))) >>> 0;
+      b = w * S - 1;
+      r = a * a + b * b;
+    } while (r >= 1 || r === 0);
+    const g = noise * Math.sqrt((-2 * Math.log(r)) / r);
+    dE[i] = f * dE[i] + g * a;
+    if (i + 1 < n) dE[i + 1] = f * dE[i + 1] + g * b;
   }
   xs[0] = x; xs[1] = y; xs[2] = z; xs[3] = w;
 }
