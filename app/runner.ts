@@ -7,6 +7,7 @@ import type { RunFrame, TrackApi, ViewWindow } from '../workers/protocol.ts';
 import { bucketAt } from './derived.ts';
 import { useApp, type AppState } from './store.ts';
 import { chooseWindow, needsRefit } from './viewWindow.ts';
+import { drawsDue } from './views/schedule.ts';
 
 /** Particle coordinates come back as points (not only a histogram) below this count. */
 export const POINTS_MAX = 20_000;
@@ -61,8 +62,12 @@ export async function fetchParticles(): Promise<{ dt: Float64Array; dE: Float64A
   return api && !busy ? api.particles() : null;
 }
 
+// Core errors name the field first ("beam.distribution.size.value = 5 eV·s: ..."): show them next to it too.
+const FIELD_FIRST = /^([A-Za-z]\w*(?:\.\w+|\[\d+\])*) = /;
+
 function fail(message: string): void {
-  useApp.setState({ status: 'error', statusMessage: message, running: false });
+  const m = FIELD_FIRST.exec(message);
+  useApp.setState({ status: 'error', statusMessage: message, running: false, runIssue: m ? { path: m[1], text: message } : null });
 }
 
 // The beam must be regenerated when it has not been tracked yet or when what defines it changed.
@@ -94,6 +99,8 @@ function tick(): void {
     redraw = false;
     call(() => api!.run({ turns: 0, budgetMs: BUDGET_MS, view: view!, pointsMax: POINTS_MAX }), false, 'binning');
   } else if (s.running && s.frame) {
+    // Let due redraws go first: the worker then rests while the page draws, instead of competing for a core.
+    if (drawsDue()) return;
     if (turn >= goal) useApp.setState({ running: false, status: 'done', statusMessage: `stopped at turn ${turn}` });
     else {
       const req = { turns: Math.min(s.turnsPerFrame, goal - turn), budgetMs: BUDGET_MS, view: view!, pointsMax: POINTS_MAX };
@@ -110,7 +117,8 @@ function call(fn: () => Promise<RunFrame>, fresh: boolean, what: string): void {
       busy = false;
       const t = performance.now();
       accept(f, fresh);
-      performance.measure('accept frame', { start: t }); // user timing (store update and React render)
+      // User timing of the store update and the React render it schedules (a microtask queued before this one).
+      queueMicrotask(() => performance.measure('accept frame', { start: t }));
     },
     (e) => {
       busy = false;
@@ -127,7 +135,7 @@ function accept(f: RunFrame, fresh: boolean): void {
   if (profiles.length > WATERFALL_ROWS) profiles = profiles.slice(profiles.length - WATERFALL_ROWS);
   const running = s.running;
   useApp.setState({
-    frame: f, log, profiles, logVersion: s.logVersion + 1, ...(fresh ? { matched: f.matched ?? null } : {}),
+    frame: f, log, profiles, logVersion: s.logVersion + 1, ...(fresh ? { matched: f.matched ?? null, runIssue: null } : {}),
     status: running ? 'running' : 'ready',
     statusMessage: running ? `tracking: ${f.turnsDone} turns in ${f.trackMs.toFixed(0)} ms` : 'ready',
   });

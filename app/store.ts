@@ -40,6 +40,8 @@ export interface AppState {
   /** Line-density profiles at the logged turns, for the waterfall. */
   profiles: ProfileRow[];
   logVersion: number;
+  /** A problem the tracker found with the valid setup (e.g. a bunch larger than the bucket): its field and text. */
+  runIssue: { path: string; text: string } | null;
   /** Matched-bunch numbers of the beam as generated (computed with it in the worker), null if not matched. */
   matched: MatchedInfo | null;
 }
@@ -63,6 +65,7 @@ export const useApp = create<AppState>(() => ({
   profiles: [],
   logVersion: 0,
   matched: null,
+  runIssue: null,
 }));
 
 /** Replace the draft; if it validates it becomes the running setup, else the last valid one keeps running. */

@@ -15,11 +15,13 @@ function show(v: unknown, toDisplay: number): string {
   return v === undefined ? '' : String(v);
 }
 
-/** Issues of the draft at exactly this path, as one line each. */
+/** Issues of the draft at exactly this path (or the tracker's objection to it), as one line each. */
 export function useIssues(path: readonly PathSeg[]): string[] {
   const key = pathKey(path);
   const issues = useApp((s) => s.issues);
-  return issues.filter((i) => i.path === key).map(formatIssue);
+  const run = useApp((s) => s.runIssue);
+  const lines = issues.filter((i) => i.path === key).map(formatIssue);
+  return run && run.path === key && lines.length === 0 ? [run.text] : lines;
 }
 
 function Row(props: { id: string; label: string; unit?: string; errors: string[]; children: ReactNode; hint?: string }) {

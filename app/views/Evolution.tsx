@@ -16,7 +16,7 @@ interface Series {
 }
 
 // Redraw each small plot at most this often while tracking [ms]: a trend needs no 60 Hz.
-const MIN_GAP_MS = 500;
+const MIN_GAP_MS = 1000;
 
 const SERIES: Series[] = [
   { id: 'rms-length', title: 'rms length σt [ns]', pick: (r) => r.rmsDt * 1e9 },

@@ -19,7 +19,7 @@ export const DENSITY_SCALE: [number, string][] = [[0, '#dfe8f1'], [0.25, '#8fb3d
 const SEP_COLOUR = '#c0561b';
 const STATIC = { displayModeBar: false, responsive: true, staticPlot: true } as const;
 // The bucket layer follows a ramp at most this often [ms].
-const BUCKET_GAP_MS = 200;
+const BUCKET_GAP_MS = 500;
 // The beam layer at most this often [ms]: ~12 pictures a second read as motion and leave the page idle time.
 const BEAM_GAP_MS = 80;
 

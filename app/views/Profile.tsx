@@ -7,7 +7,7 @@ import { BASE_LAYOUT, CONFIG, Panel } from './Panel.tsx';
 import { scheduleDraw } from './schedule.ts';
 
 // Redraw at most this often while tracking [ms].
-const MIN_GAP_MS = 150;
+const MIN_GAP_MS = 200;
 
 /** Bin centres [ns] of a profile over [dtMin, dtMax). */
 export function binCentresNs(dtMin: number, dtMax: number, n: number): Float64Array {

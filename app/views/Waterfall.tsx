@@ -11,7 +11,19 @@ import { binCentresNs } from './Profile.tsx';
 import { scheduleDraw } from './schedule.ts';
 
 // The history changes slowly: redraw at most this often while tracking [ms].
-const MIN_GAP_MS = 500;
+const MIN_GAP_MS = 1000;
+
+// Converted rows, kept until the window changes: each redraw then converts only the new rows.
+const converted = new WeakMap<ProfileRow, { key: string; values: number[] }>();
+
+function rowFor(r: ProfileRow, dtMin: number, dtMax: number, n: number): number[] {
+  const key = `${dtMin}|${dtMax}|${n}`;
+  const hit = converted.get(r);
+  if (hit && hit.key === key) return hit.values;
+  const values = resampleRow(r, dtMin, dtMax, n);
+  converted.set(r, { key, values });
+  return values;
+}
 
 /** Row values [1/ns] at n bins over [dtMin, dtMax): copied when the window matches, else interpolated. */
 export function resampleRow(r: ProfileRow, dtMin: number, dtMax: number, n: number): number[] {
@@ -52,7 +64,7 @@ export function Waterfall() {
     const draw = () => {
       const n = frame.profile.length;
       const data: Data[] = [{
-        type: 'heatmap', z: profiles.map((r) => resampleRow(r, v.dtMin, v.dtMax, n)), x: Array.from(binCentresNs(v.dtMin, v.dtMax, n)),
+        type: 'heatmap', z: profiles.map((r) => rowFor(r, v.dtMin, v.dtMax, n)), x: Array.from(binCentresNs(v.dtMin, v.dtMax, n)),
         y: profiles.map((p) => p.turn), colorscale: DENSITY_SCALE, showscale: false, zsmooth: 'fast',
         hovertemplate: 'turn %{y}<br>dt %{x:.3g} ns<br>λ %{z:.3g}/ns<extra></extra>',
       } as Data];

@@ -21,6 +21,13 @@ export function scheduleDraw(id: string, draw: () => void, minGapMs = 0): void {
   queue();
 }
 
+/** True while a requested redraw is due now (the runner holds the next tracking call until it is done). */
+export function drawsDue(): boolean {
+  const now = performance.now();
+  for (const [id, job] of pending) if (now - (lastDrawn.get(id) ?? -Infinity) >= job.minGapMs) return true;
+  return false;
+}
+
 const channel = new MessageChannel();
 channel.port1.onmessage = flush;
 let frameStart = 0;
