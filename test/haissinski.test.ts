@@ -128,7 +128,7 @@ describe('Haïssinski equilibrium with an inductive impedance', () => {
     const shift = centroid(t, lam) - centroid(t, ref);
     let worst = 0;
     for (let i = 0; i < t.length; i++) worst = Math.max(worst, Math.abs(lam[i] - interp(t, ref, t[i] - shift)) / peak);
-    expect(worst).toBeLessThan(0.06);
+    expect(worst).toBeLessThan(0.03);
   });
 });
 
