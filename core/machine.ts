@@ -14,6 +14,8 @@ import type { Setup } from './setup/schema.ts';
 import { solveSyncPhase, stableSlope, type Slope } from './synchronous.ts';
 import { buildPrograms, fmtEvent, slopeSwitchMessage, type CyclePrograms, type MachineEvent } from './program/machinePrograms.ts';
 
+// RF phases are quoted as the particle sees them (its energy gain), so the sign of the charge is absorbed in the
+// phase: the RF gives |Z|·V·sin φ for either sign (an electron sees the field shifted by π). Common practice.
 export interface RfSystemState {
   h: number;
   /** Peak voltage [V]. */
@@ -102,7 +104,7 @@ export class MachineStepper {
       turn: 0, time: 0, particle: p, circumference: setup.ring.circumference, compaction: compactionOf(setup),
       Es: k.E, gamma: k.gamma, beta: k.beta, pc: k.pc, T: k.T, T0: 0, f0: 0, omega0: 0, eta0: 0, eta1: 0, dEs: 0, U0: 0,
       h, omegaRf: 0, rf,
-      wave: { ZV: rf.map((r) => p.Z * r.V), n: rf.map((r) => r.h / h), offset: rf.map((r) => r.offset), dEs: 0 },
+      wave: { ZV: rf.map((r) => Math.abs(p.Z) * r.V), n: rf.map((r) => r.h / h), offset: rf.map((r) => r.offset), dEs: 0 },
       slope: 'rising', phiS: NaN, noBucket: null, events: [],
     };
     this.programs = buildPrograms(setup, p, k.pc);
@@ -179,7 +181,7 @@ export class MachineStepper {
     const ZV = s.wave.ZV as number[], off = s.wave.offset as number[];
     for (let k = 0; k < s.rf.length; k++) {
       const v = voltage[k], f = phase[k];
-      if (v) { s.rf[k].V = v.at(s.time); ZV[k] = s.particle.Z * s.rf[k].V; }
+      if (v) { s.rf[k].V = v.at(s.time); ZV[k] = Math.abs(s.particle.Z) * s.rf[k].V; }
       if (f) { s.rf[k].offset = f.at(s.time); off[k] = s.rf[k].offset; }
     }
   }
