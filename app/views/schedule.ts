@@ -2,7 +2,8 @@
 // frame (oldest request first), so no single main-thread task grows long while the tracker streams frames.
 // Each plot is drawn in its own task posted from the animation-frame callback, not inside it: the browser's
 // style, layout and paint then form separate tasks instead of adding to the drawing ones.
-// A plot may ask for a minimum gap between its redraws (slow-changing plots need not follow every frame).
+// A plot may ask for a minimum gap between its redraws (slow-changing plots need not follow every frame), and
+// the gap also grows with the plot's last drawing time, so a slow or busy machine gets fewer, not longer, redraws.
 interface Job {
   draw: () => void;
   minGapMs: number;
@@ -10,6 +11,15 @@ interface Job {
 
 const pending = new Map<string, Job>();
 const lastDrawn = new Map<string, number>();
+const lastCost = new Map<string, number>();
+// Each plot may use at most 1/DUTY of the main thread: gap ≥ DUTY × its last drawing time.
+const DUTY = 8;
+
+function due(id: string, job: Job, now: number): boolean {
+  const gap = Math.max(job.minGapMs, DUTY * (lastCost.get(id) ?? 0));
+  return now - (lastDrawn.get(id) ?? -Infinity) >= gap;
+}
+
 let queued = false;
 // Drawing time allowed per animation frame [ms]; leaves room for React and input under a 50 ms long-task limit.
 const SLICE_MS = 12;
@@ -24,7 +34,7 @@ export function scheduleDraw(id: string, draw: () => void, minGapMs = 0): void {
 /** True while a requested redraw is due now (the runner holds the next tracking call until it is done). */
 export function drawsDue(): boolean {
   const now = performance.now();
-  for (const [id, job] of pending) if (now - (lastDrawn.get(id) ?? -Infinity) >= job.minGapMs) return true;
+  for (const [id, job] of pending) if (due(id, job, now)) return true;
   return false;
 }
 
@@ -47,10 +57,12 @@ function flush(): void {
   queued = false;
   const now = performance.now();
   for (const [id, job] of pending) {
-    if (now - (lastDrawn.get(id) ?? -Infinity) < job.minGapMs) continue; // not due yet; stays pending
+    if (!due(id, job, now)) continue; // not due yet; stays pending
     pending.delete(id);
     job.draw();
-    lastDrawn.set(id, performance.now());
+    const end = performance.now();
+    lastDrawn.set(id, end);
+    lastCost.set(id, end - now);
     performance.measure('draw ' + id, { start: now }); // user timing: the browser tests report these
     break;
   }
