@@ -54,7 +54,7 @@ export function step(n: number): void {
 
 /** Stop after the call in flight. */
 export function pause(): void {
-  useApp.setState({ running: false });
+  useApp.setState({ running: false, statusMessage: 'pausing…' });
 }
 
 /** All particles (alive first), for export. */
@@ -137,7 +137,7 @@ function accept(f: RunFrame, fresh: boolean): void {
   useApp.setState({
     frame: f, log, profiles, logVersion: s.logVersion + 1, ...(fresh ? { matched: f.matched ?? null, runIssue: null } : {}),
     status: running ? 'running' : 'ready',
-    statusMessage: running ? `tracking: ${f.turnsDone} turns in ${f.trackMs.toFixed(0)} ms` : 'ready',
+    statusMessage: running ? `tracking: ${f.turnsDone} turns in ${f.trackMs.toFixed(0)} ms` : fresh || f.turn === 0 ? 'ready' : `paused at turn ${f.turn}`,
   });
   const want = chooseWindow(bucketAt(s.valid, f.turn > 0 ? f.Es : null), f.current);
   if (view && needsRefit(view, want)) {

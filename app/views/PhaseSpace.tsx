@@ -1,7 +1,8 @@
 // Phase-space view: the beam as a density image (or as points when few) in (dt [ns], dE [MeV or keV]), with
-// the separatrix and fixed points of the bucket at the shown energy drawn over it. Two Plotly figures are
-// stacked with the same margins and ranges: the beam layer redraws every frame, the bucket layer (axes,
-// separatrix) only when the bucket or the window changes, which keeps each redraw a short task.
+// the separatrix and fixed points of the bucket at the shown energy drawn over it. Three Plotly figures are
+// stacked with the same margins and ranges: axes (bottom; redrawn only when the window changes), beam (every
+// frame) and bucket (when the bucket changes). The two upper layers have no axes to draw, so each redraw
+// stays a short task.
 import { useEffect, useRef } from 'react';
 import type { Data, Layout } from 'plotly.js';
 import Plotly from '../plotly.ts';
@@ -12,7 +13,7 @@ import { energyUnit } from '../units.ts';
 import { chooseWindow } from '../viewWindow.ts';
 import { BASE_LAYOUT } from './Panel.tsx';
 import { savePng } from './png.ts';
-import { scheduleDraw } from './schedule.ts';
+import { scheduleDraw, whileRunning } from './schedule.ts';
 
 /** Density colours: pale paper to deep ink, empty cells left blank. */
 export const DENSITY_SCALE: [number, string][] = [[0, '#dfe8f1'], [0.25, '#8fb3d1'], [0.55, '#3f6f99'], [0.8, '#1f3b5c'], [1, '#0e1a2b']];
@@ -36,17 +37,19 @@ function heatmapZ(h: Float32Array, nx: number, ny: number): (number | null)[][] 
   return z;
 }
 
-// Both layers share margins and ranges. The beam layer (below) carries the grid; the bucket layer (above) is
-// transparent and carries the tick labels, titles and zero line, so no grid line crosses the beam.
-function axes(top: boolean): Partial<Layout> {
-  const axis = { zeroline: top, zerolinecolor: '#d0d0d0', showgrid: !top, showticklabels: top, ticks: top ? ('outside' as const) : ('' as const), autorange: false };
+// All layers share margins and ranges; only the bottom one draws grid, ticks, titles and zero lines.
+type LayerKind = 'axes' | 'beam' | 'bucket';
+
+function layer(kind: LayerKind): Partial<Layout> {
+  const on = kind === 'axes';
+  const axis = { zeroline: on, zerolinecolor: '#cfd3d8', showgrid: on, showticklabels: on, ticks: on ? ('outside' as const) : ('' as const), autorange: false };
   return {
     ...BASE_LAYOUT,
     margin: { l: 60, r: 14, t: 8, b: 42 },
-    xaxis: { ...axis, title: { text: top ? 'time offset dt [ns] (late →)' : '' } },
-    yaxis: { ...axis, title: { text: top ? 'energy offset dE [MeV]' : '' } },
+    xaxis: { ...axis, title: { text: on ? 'time offset dt [ns] (late →)' : '' } },
+    yaxis: { ...axis, title: { text: on ? 'energy offset dE [MeV]' : '' } },
     datarevision: 0,
-    ...(top ? { paper_bgcolor: 'rgba(0,0,0,0)', plot_bgcolor: 'rgba(0,0,0,0)' } : {}),
+    ...(on ? {} : { paper_bgcolor: 'rgba(0,0,0,0)', plot_bgcolor: 'rgba(0,0,0,0)' }),
   };
 }
 
@@ -59,10 +62,12 @@ function setRanges(L: Partial<Layout>, x: [number, number], y: [number, number],
 
 /** The phase-space panel. */
 export function PhaseSpace() {
+  const axesRef = useRef<HTMLDivElement>(null);
   const beamRef = useRef<HTMLDivElement>(null);
   const topRef = useRef<HTMLDivElement>(null);
-  const beamLayout = useRef(axes(false));
-  const topLayout = useRef(axes(true));
+  const axesLayout = useRef(layer('axes'));
+  const beamLayout = useRef(layer('beam'));
+  const topLayout = useRef(layer('bucket'));
   const valid = useApp((s) => s.valid);
   const frame = useApp((s) => s.frame);
   const bv = useApp((s) => bucketAt(s.valid, shownEnergy(s)));
@@ -73,7 +78,13 @@ export function PhaseSpace() {
   const yr: [number, number] = [win.dEMin * k, win.dEMax * k];
   const key = `${xr}|${yr}`;
 
-  // Bucket layer: axes, separatrix, fixed points.
+  // Axes layer: only when the window or the energy unit changes.
+  useEffect(() => {
+    setRanges(axesLayout.current, xr, yr, `energy offset dE [${eu.label}]`);
+    scheduleDraw('axes', () => axesRef.current && Plotly.react(axesRef.current, [], axesLayout.current, STATIC));
+  }, [key, eu.label]);
+
+  // Bucket layer: separatrix, fixed points.
   useEffect(() => {
     const data: Data[] = [];
     if (bv.sep) {
@@ -82,8 +93,8 @@ export function PhaseSpace() {
     }
     data.push({ type: 'scatter', mode: 'markers', x: bv.stableDt.map((t) => t * 1e9), y: bv.stableDt.map(() => 0), marker: { symbol: 'circle-open', size: 8, color: SEP_COLOUR }, name: 'stable fixed point' });
     data.push({ type: 'scatter', mode: 'markers', x: bv.unstableDt.map((t) => t * 1e9), y: bv.unstableDt.map(() => 0), marker: { symbol: 'x-thin-open', size: 9, color: SEP_COLOUR, line: { width: 2, color: SEP_COLOUR } }, name: 'unstable fixed point' });
-    setRanges(topLayout.current, xr, yr, `energy offset dE [${eu.label}]`);
-    scheduleDraw('bucket', () => topRef.current && Plotly.react(topRef.current, data, topLayout.current, STATIC), BUCKET_GAP_MS);
+    setRanges(topLayout.current, xr, yr);
+    scheduleDraw('bucket', () => topRef.current && Plotly.react(topRef.current, data, topLayout.current, STATIC), whileRunning(BUCKET_GAP_MS));
   }, [bv, key]);
 
   // Beam layer: density image or points.
@@ -106,7 +117,7 @@ export function PhaseSpace() {
         } as Data);
       }
       if (beamRef.current) Plotly.react(beamRef.current, data, beamLayout.current, STATIC);
-    }, BEAM_GAP_MS);
+    }, whileRunning(BEAM_GAP_MS));
   }, [frame, key, valid]);
 
   return (
@@ -116,11 +127,12 @@ export function PhaseSpace() {
         <span className="panel-note" id="phase-state">
           {bv.bucket ? 'separatrix and fixed points (○ stable, × unstable)' : `no bucket: ${bv.reason}`}
         </span>
-        <button type="button" className="small" title="Save this plot as a PNG image" onClick={() => savePng([beamRef.current, topRef.current], 'phasewell-phase-space')}>
+        <button type="button" className="small" title="Save this plot as a PNG image" onClick={() => savePng([axesRef.current, beamRef.current, topRef.current], 'phasewell-phase-space')}>
           PNG
         </button>
       </header>
       <div className="plot stack">
+        <div className="layer" id="plot-phase-axes" ref={axesRef} />
         <div className="layer" id="plot-phase-beam" ref={beamRef} />
         <div className="layer" id="plot-phase" ref={topRef} />
       </div>

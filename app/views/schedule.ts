@@ -4,6 +4,8 @@
 // style, layout and paint then form separate tasks instead of adding to the drawing ones.
 // A plot may ask for a minimum gap between its redraws (slow-changing plots need not follow every frame), and
 // the gap also grows with the plot's last drawing time, so a slow or busy machine gets fewer, not longer, redraws.
+import { useApp } from '../store.ts';
+
 interface Job {
   draw: () => void;
   minGapMs: number;
@@ -23,6 +25,11 @@ function due(id: string, job: Job, now: number): boolean {
 let queued = false;
 // Drawing time allowed per animation frame [ms]; leaves room for React and input under a 50 ms long-task limit.
 const SLICE_MS = 12;
+
+/** The gap to ask for: the given one while the tracker runs, none when it is idle (show the final state now). */
+export function whileRunning(gapMs: number): number {
+  return useApp.getState().running ? gapMs : 0;
+}
 
 /** Ask for plot `id` to be drawn by `draw` (a newer request replaces an older one). */
 export function scheduleDraw(id: string, draw: () => void, minGapMs = 0): void {
