@@ -9,13 +9,13 @@ import { machineAtStart } from '../core/machine.ts';
 import { makeRng } from '../core/rng.ts';
 import type { Setup } from '../core/setup/schema.ts';
 import { parseSetup } from '../core/setup/validate.ts';
-import { Tracker } from '../core/tracker.ts';
+import { Tracker, type KernelChoice } from '../core/tracker.ts';
 
 const RUNS = 5;
 const json = process.argv.includes('--json');
 const PARTICLES = 1_000_000;
 
-interface KernelCase { name: string; particles: number; turns: number; rfSystems: number; drift: 'linear' | 'exact'; threads: number; impl: 'js' | 'wasm'; mpts: number }
+interface KernelCase { name: string; particles: number; turns: number; rfSystems: number; drift: 'linear' | 'exact'; threads: number; impl: 'js' | 'wasm' | 'reference'; mpts: number }
 
 // A fictional proton ring, accelerating, below transition.
 function benchSetup(rfSystems: number, drift: 'linear' | 'exact'): Setup {
@@ -53,17 +53,19 @@ function median(xs: number[]): number {
   return s[Math.floor(s.length / 2)];
 }
 
-function kernelCase(rfSystems: number, drift: 'linear' | 'exact', turns: number): KernelCase {
+function kernelCase(rfSystems: number, drift: 'linear' | 'exact', turns: number, kernel: KernelChoice): KernelCase {
   const setup = benchSetup(rfSystems, drift);
   const mpts: number[] = [];
+  let impl: KernelCase['impl'] = 'reference';
   for (let run = 0; run <= RUNS; run++) {
-    const tracker = new Tracker(setup, fillBunch(setup));
+    const tracker = new Tracker(setup, fillBunch(setup), { kernel });
+    impl = tracker.impl;
     const t0 = performance.now();
     tracker.track(turns);
     const s = (performance.now() - t0) / 1e3;
     if (run > 0) mpts.push((tracker.bunch.n * turns) / s / 1e6); // run 0 is the warm-up
   }
-  return { name: `${rfSystems} RF, ${drift} drift`, particles: PARTICLES, turns, rfSystems, drift, threads: 1, impl: 'js', mpts: median(mpts) };
+  return { name: `${rfSystems} RF, ${drift} drift`, particles: PARTICLES, turns, rfSystems, drift, threads: 1, impl, mpts: median(mpts) };
 }
 
 function timeMs(f: () => void, reps: number): number {
@@ -77,7 +79,11 @@ function timeMs(f: () => void, reps: number): number {
   return median(ts);
 }
 
-const kernels = [kernelCase(1, 'linear', 50), kernelCase(1, 'exact', 50), kernelCase(2, 'linear', 30), kernelCase(2, 'exact', 30)];
+// The tracker with each implementation of the turn: WebAssembly SIMD kernel, TypeScript kernel (both with the
+// polynomial sine) and the reference elements (Math.sin). 'wasm' is what the tracker picks by default here.
+const kernels: KernelCase[] = [];
+for (const kernel of ['wasm', 'js', 'reference'] as const)
+  for (const [rf, drift] of [[1, 'linear'], [1, 'exact'], [2, 'linear'], [2, 'exact']] as const) kernels.push(kernelCase(rf, drift, 40, kernel));
 
 const m1 = machineAtStart(benchSetup(1, 'linear'));
 const m2 = machineAtStart(benchSetup(2, 'linear'));
@@ -101,9 +107,9 @@ const result = {
 if (json) process.stdout.write(JSON.stringify(result, null, 2) + '\n');
 else {
   console.log(`Phasewell kernel benchmark (${result.machine}); median of ${RUNS} runs after a warm-up`);
-  console.log('case                       particles  turns  impl  threads     Mpt/s');
+  console.log('case                       particles  turns  impl       threads     Mpt/s');
   for (const k of kernels)
-    console.log(`${k.name.padEnd(26)} ${String(k.particles).padStart(9)} ${String(k.turns).padStart(6)}  ${k.impl.padEnd(4)} ${String(k.threads).padStart(7)} ${k.mpts.toFixed(1).padStart(9)}`);
+    console.log(`${k.name.padEnd(26)} ${String(k.particles).padStart(9)} ${String(k.turns).padStart(6)}  ${k.impl.padEnd(9)} ${String(k.threads).padStart(7)} ${k.mpts.toFixed(1).padStart(9)}`);
   console.log(`bucket + separatrix: ${result.separatrixMs.oneRf.toFixed(2)} ms (1 RF), ${result.separatrixMs.twoRf.toFixed(2)} ms (2 RF)`);
   console.log(`2-D histogram of ${PARTICLES} particles, 256x256: ${histogramMs.toFixed(1)} ms`);
   console.log(`typed-array memory in use: ${memoryMB.toFixed(1)} MB`);

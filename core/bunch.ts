@@ -3,8 +3,9 @@
 // with no branch, and the lost keep the coordinates they had when they were lost.
 
 export interface Bunch {
-  readonly dt: Float64Array;
-  readonly dE: Float64Array;
+  /** Columns; a Tracker may move them into its kernel's memory, so keep the Bunch, not the arrays. */
+  dt: Float64Array;
+  dE: Float64Array;
   /** Number of alive particles (they are the first n). */
   n: number;
   /** Number of particles generated (alive + lost). */

@@ -6,7 +6,12 @@
 // starting at the first one, so dt is the arrival time at that gap. With distributed gaps every arc uses the
 // turn-(n+1) reference energy (the reference between gaps is not split: first order in ΔE_s/E_s per turn).
 // Added elements (collective kicks, radiation) run after the RF kicks of the last gap, with state n.
+// Kernels: with one gap (the usual case) and at most MAX_RF systems, the turn runs through a turn kernel
+// (core/kernels: WebAssembly SIMD where it validates, else TypeScript; polynomial sine). The bunch's columns
+// then move into the kernel's memory once. Option kernel: 'reference' keeps the plain elements with Math.sin.
 import type { Bunch } from './bunch.ts';
+import { KernelGap } from './elements/kernelGap.ts';
+import { chooseKernel, createKernel, MAX_RF, type Columns, type TurnKernel } from './kernels/index.ts';
 import { drift } from './elements/drift.ts';
 import { inducedKickFromSetup, type InducedKickElement } from './elements/inducedKick.ts';
 import { radiationKickFromSetup } from './elements/radiationKick.ts';
@@ -20,9 +25,17 @@ interface Gap {
   drift: Element;
 }
 
+/** Which implementation runs the RF kick and drift: a turn kernel ('auto' picks wasm where supported) or the reference elements. */
+export type KernelChoice = 'auto' | 'wasm' | 'js' | 'reference';
+
 /** Tracks a bunch turn by turn through the RF gaps and arcs of a setup. */
 export class Tracker {
   readonly bunch: Bunch;
+  /** The kernel implementation in use for the single-gap turn ('reference': plain elements). */
+  readonly impl: 'wasm' | 'js' | 'reference';
+  private readonly kernel: TurnKernel | null;
+  private fast: KernelGap | null = null;
+  private cols: Columns | null = null;
   private stepper: MachineStepper;
   private ahead: MachineStepper | null = null; // state n+1, needed only with distributed gaps
   private gaps: Gap[] = [];
@@ -31,8 +44,21 @@ export class Tracker {
   /** The induced-voltage element of the setup (null without intensity and impedances); rebuilt by updateSetup. */
   induced: InducedKickElement | null = null;
 
-  constructor(setup: Setup, bunch: Bunch) {
+  constructor(setup: Setup, bunch: Bunch, opts: { kernel?: KernelChoice } = {}) {
     this.bunch = bunch;
+    const choice = opts.kernel ?? 'auto';
+    const impl = choice === 'auto' ? chooseKernel() : choice;
+    this.kernel = impl === 'reference' ? null : createKernel(impl, { initialParticles: bunch.total });
+    this.impl = impl;
+    if (this.kernel) {
+      // Move the columns into the kernel's memory once (WebAssembly kernels work only on their own memory).
+      const cols = this.kernel.allocColumns(bunch.total);
+      cols.dt.set(bunch.dt);
+      cols.dE.set(bunch.dE);
+      bunch.dt = cols.dt;
+      bunch.dE = cols.dE;
+      this.cols = cols;
+    }
     this.stepper = new MachineStepper(setup);
     this.build(setup);
   }
@@ -74,6 +100,23 @@ export class Tracker {
     const cur = this.stepper.state;
     const gaps = this.gaps;
     const extras = this.extras;
+    const fast = this.fast;
+    if (fast !== null) {
+      fast.setKick(cur);
+      if (this.physics.length + extras.length === 0) {
+        this.stepper.advance();
+        fast.setDrift(cur);
+        fast.applyKickDrift(b);
+        return;
+      }
+      fast.applyKick(b);
+      for (let j = 0; j < this.physics.length; j++) this.physics[j].apply(b, cur);
+      for (let j = 0; j < extras.length; j++) extras[j].apply(b, cur);
+      this.stepper.advance();
+      fast.setDrift(cur);
+      fast.applyDrift(b);
+      return;
+    }
     if (this.ahead === null) {
       gaps[0].kick.apply(b, cur);
       for (let j = 0; j < this.physics.length; j++) this.physics[j].apply(b, cur);
@@ -111,6 +154,8 @@ export class Tracker {
       const frac = g + 1 < pos.length ? pos[g + 1] - p : 1 - p + pos[0];
       return { kick: rfKick(byPos.get(p)!), drift: drift(frac, mode, momentumAperture) };
     });
+    const single = pos.length === 1 && setup.rf.systems.length <= MAX_RF;
+    this.fast = single && this.kernel && this.cols ? new KernelGap(this.kernel, byPos.get(pos[0])!, mode, momentumAperture, this.cols) : null;
     if (pos.length > 1) {
       const s = this.stepper.state;
       this.ahead = new MachineStepper(setup);

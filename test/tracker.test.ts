@@ -10,6 +10,7 @@ import { makeRng } from '../core/rng.ts';
 import type { Setup } from '../core/setup/schema.ts';
 import { parseSetup } from '../core/setup/validate.ts';
 import { Tracker } from '../core/tracker.ts';
+import { createJsKernel, makeDriftParams, makeKickParams } from '../core/kernels/index.ts';
 
 type Sys = { harmonic: number; voltage: number; phase?: number; position?: number };
 interface Opts { systems: Sys[]; kinetic?: number; ramp?: object; drift?: 'linear' | 'exact'; aperture?: number; gammaT?: number; slope?: string }
@@ -102,13 +103,13 @@ function trackRecording(tr: Tracker, turns: number): MachineState[] {
 describe('time reversibility (the inverse of a shear is the shear with the opposite sign)', () => {
   for (const mode of ['linear', 'exact'] as const)
     for (const [name, systems, gap] of [['one RF', oneRf, [0]], ['two RF', twoRfSameGap, [0, 1]]] as const)
-      it(`${mode} drift, ${name}: 1000 turns forward and back recover the start`, () => {
+      it(`${mode} drift, ${name}: 1000 turns forward and back recover the start (reference elements)`, () => {
         const setup = ring({ systems: [...systems], ramp: accel, drift: mode });
         const m0 = new Tracker(setup, makeBunch(1)).machine;
         const T1 = 1 / m0.omegaRf, E1 = energyScale(m0);
         const start = [[0.7, 0.2], [-0.4, 0.5], [0.05, -0.8], [1.2, 0]];
         const b = bunchFrom(Float64Array.from(start.map((p) => p[0] * T1)), Float64Array.from(start.map((p) => p[1] * E1)));
-        const tr = new Tracker(setup, b);
+        const tr = new Tracker(setup, b, { kernel: 'reference' });
         const N = 1000;
         const S = trackRecording(tr, N);
         expect(b.n).toBe(start.length);
@@ -123,6 +124,42 @@ describe('time reversibility (the inverse of a shear is the shear with the oppos
           expect(Math.abs(b.dE[i] / E1 - p[1])).toBeLessThan(1e-12);
         });
       });
+});
+
+describe('time reversibility of the default (kernel) path', () => {
+  // The default tracker runs the turn kernel with its polynomial sine; running the same shears backwards with the
+  // TypeScript kernel (bit-identical to the wasm one, core/kernels tests) and negated coefficients must undo it.
+  for (const mode of ['linear', 'exact'] as const)
+    it(`${mode} drift, two RF: 1000 turns forward and back recover the start`, () => {
+      const setup = ring({ systems: [...twoRfSameGap], ramp: accel, drift: mode });
+      const m0 = new Tracker(setup, makeBunch(1)).machine;
+      const T1 = 1 / m0.omegaRf, E1 = energyScale(m0);
+      const start = [[0.7, 0.2], [-0.4, 0.5], [0.05, -0.8], [1.2, 0]];
+      const b = bunchFrom(Float64Array.from(start.map((p) => p[0] * T1)), Float64Array.from(start.map((p) => p[1] * E1)));
+      const tr = new Tracker(setup, b);
+      expect(tr.impl).not.toBe('reference');
+      const S = trackRecording(tr, 1000);
+      const k = createJsKernel();
+      const cols = { dt: Float64Array.from(b.dt.subarray(0, 4)), dE: Float64Array.from(b.dE.subarray(0, 4)) };
+      const kick = makeKickParams(), dr = makeDriftParams(mode);
+      const wide = { dtMax: Infinity, dEmax: Infinity };
+      for (let n = 999; n >= 0; n--) {
+        const m1 = S[n + 1], m = S[n];
+        if (mode === 'linear') dr.slip = -(m1.T0 * m1.eta0) / (m1.beta ** 2 * m1.Es);
+        else Object.assign(dr, { period: -m1.T0, Es: m1.Es, beta2: m1.beta ** 2, gamma2: m1.gamma ** 2, ...m1.compaction });
+        k.drift(cols, 4, dr, wide);
+        kick.count = 2;
+        m.rf.forEach((r, j) => { kick.amplitude[j] = r.V; kick.omega[j] = r.h * m.omega0; kick.phase[j] = r.phi; });
+        kick.dEsync = k.syncGain(kick);
+        for (let j = 0; j < 2; j++) kick.amplitude[j] = -kick.amplitude[j];
+        kick.dEsync = -kick.dEsync;
+        k.kick(cols, 4, kick);
+      }
+      start.forEach((p, i) => {
+        expect(Math.abs(cols.dt[i] / T1 - p[0])).toBeLessThan(1e-12);
+        expect(Math.abs(cols.dE[i] / E1 - p[1])).toBeLessThan(1e-12);
+      });
+    });
 });
 
 describe('the synchronous particle', () => {
