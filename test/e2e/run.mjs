@@ -59,7 +59,7 @@ const tests = [
     },
   },
   {
-    name: 'running 200 turns updates the turn counter and the evolution plots',
+    name: 'running 200 turns updates the turn counter and the evolution plots; a machine edit keeps the beam, a beam edit regenerates it',
     async fn({ ctx, url }) {
       const page = await openApp(ctx, url);
       await stepTo(page, 200, 200);
@@ -75,6 +75,16 @@ const tests = [
       const [len] = await traces(page, 'evo-rms-length');
       ok(new Set(len.y).size > 1, 'the rms length should change over 200 turns');
       ok((await page.textContent('#cycle-time')) !== '0 ns', 'cycle time should advance');
+      // A machine change keeps the beam and the turn; a beam change regenerates the beam (turn 0).
+      const area = await summary(page, 'area');
+      await page.fill('#f-rf-systems-0-voltage', '30');
+      await page.waitForFunction((a) => Number(document.getElementById('sum-area').dataset.value) > a, area);
+      await page.waitForTimeout(300);
+      ok((await page.textContent('#turn')) === '200', 'a voltage change must keep the beam and the turn');
+      await stepTo(page, 10, 210);
+      await page.fill('#f-beam-seed', '8');
+      await page.waitForFunction(() => document.getElementById('turn').textContent === '0');
+      await waitReady(page);
       // Space runs and pauses when no control has focus.
       await page.click('#phase-title');
       await page.keyboard.press('Space');
@@ -98,6 +108,9 @@ const tests = [
       await a.click('#copy-link');
       const link = await a.inputValue('#share-link');
       ok(link.includes('#s1='), `link: ${link.slice(0, 80)}`);
+      const pts = (await traces(a, 'phase-beam')).find((t) => t.name === 'particles');
+      ok(pts && pts.n === 20000, `20000 particles should be drawn as points, got ${pts?.n}`);
+      ok(!(await a.content()).includes('WebGL is not supported'), 'the point view says WebGL is not supported');
       const b = await openApp(ctx, link);
       for (const id of ['#f-rf-systems-0-voltage', '#f-beam-seed', '#f-beam-particles', '#f-energy-ramp-value', '#f-ring-circumference'])
         ok((await b.inputValue(id)) === (await a.inputValue(id)), `${id}: ${await b.inputValue(id)} vs ${await a.inputValue(id)}`);
