@@ -6,6 +6,7 @@ import { machineAtStart, type MachineState } from '../core/machine.ts';
 import type { Setup } from '../core/setup/schema.ts';
 import { smallAmplitudeTune } from '../core/synchrotron.ts';
 
+/** The bucket as the views need it, at one synchronous energy. */
 export interface BucketView {
   m: MachineState;
   bucket: BucketInfo | null;

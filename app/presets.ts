@@ -3,6 +3,7 @@
 import { parseSetup } from '../core/setup/validate.ts';
 import type { Setup } from '../core/setup/schema.ts';
 
+/** One example machine. */
 export interface Preset {
   id: string;
   title: string;

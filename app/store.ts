@@ -9,14 +9,17 @@ import { defaultPreset } from './presets.ts';
 import type { DiagRow, ProfileRow, RunFrame } from '../workers/protocol.ts';
 import type { MatchedInfo } from '../core/beam/index.ts';
 
+/** What the tracker is doing. */
 export type RunStatus = 'starting' | 'ready' | 'running' | 'done' | 'error';
 
+/** A message about a link or a file, one line per issue. */
 export interface Notice {
   kind: 'info' | 'error';
   title: string;
   lines: string[];
 }
 
+/** Everything the store holds. */
 export interface AppState {
   /** The document as edited; may be invalid. */
   draft: unknown;

@@ -16,8 +16,11 @@ export interface Unit {
   toDisplay: number;
 }
 
+/** Nanoseconds. */
 export const NS: Unit = { label: 'ns', toDisplay: 1e9 };
+/** Megaelectronvolts. */
 export const MEV: Unit = { label: 'MeV', toDisplay: 1e-6 };
+/** Kiloelectronvolts. */
 export const KEV: Unit = { label: 'keV', toDisplay: 1e-3 };
 
 /** MeV for spreads above 1 MeV, keV below: keeps axis numbers readable. */

@@ -5,6 +5,7 @@ import { SETUP_VERSION } from '../core/setup/schema.ts';
 import { formatIssue, parseSetup } from '../core/setup/validate.ts';
 import type { Setup } from '../core/setup/schema.ts';
 
+/** What a link fragment held: nothing, a valid setup, or the reasons it could not be opened. */
 export type LinkResult =
   | { kind: 'none' }
   | { kind: 'ok'; setup: Setup; migratedFrom?: number }

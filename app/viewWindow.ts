@@ -5,6 +5,7 @@ import type { BucketView } from './derived.ts';
 
 /** Histogram bins (dt × dE): enough detail for a ~500 px panel, small enough to bin 1e6 particles quickly. */
 export const HIST_NX = 160;
+/** Histogram bins along dE. */
 export const HIST_NY = 120;
 // Margin around the bucket, and how many rms sizes of the beam must fit.
 const BUCKET_MARGIN = 1.15;

@@ -25,6 +25,7 @@ export interface ViewWindow {
   ny: number;
 }
 
+/** One tracking call. */
 export interface RunRequest {
   /** Turns to track at most in this call. */
   turns: number;
