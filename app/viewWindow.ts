@@ -12,7 +12,7 @@ const BUCKET_MARGIN = 1.15;
 const BEAM_SIGMAS = 5;
 // When the bucket is far larger than the beam (near transition), cap the window at this many beam extents.
 const MAX_OVER_BEAM = 3;
-// Refit when the wanted half-range leaves [current/REFIT, current·REFIT'].
+// Refit when the wanted range grows past GROW × or shrinks below SHRINK × the current one.
 const GROW = 1.02;
 const SHRINK = 0.45;
 
