@@ -48,22 +48,26 @@ export function NumberField(props: { path: PathSeg[]; label: string; unit?: stri
   const value = useApp((s) => getIn(s.draft, props.path));
   const errors = useIssues(props.path);
   const [text, setText] = useState(() => show(value, k));
-  const ref = useRef<HTMLInputElement>(null);
-  // Follow outside changes (preset, file, link) unless the user is typing here.
+  // The value this input last wrote: any other value came from outside (preset, file, link) and replaces the
+  // text even while the input has focus; our own writes leave the text as typed ("2.50", "1e").
+  const written = useRef<unknown>(value);
   useEffect(() => {
-    if (document.activeElement !== ref.current) setText(show(value, k));
+    if (!Object.is(value, written.current)) {
+      written.current = value;
+      setText(show(value, k));
+    }
   }, [value, k]);
   const onChange = (t: string) => {
     setText(t);
     const x = t.trim() === '' ? NaN : Number(t);
-    if (props.optional && t.trim() === '') editField(props.path, undefined); // empty removes an optional field
-    else editField(props.path, Number.isFinite(x) ? Number((x / k).toPrecision(15)) : t);
+    const v = props.optional && t.trim() === '' ? undefined : Number.isFinite(x) ? Number((x / k).toPrecision(15)) : t;
+    written.current = v;
+    editField(props.path, v); // undefined removes an optional field
   };
   return (
     <Row id={id} label={props.label} unit={props.unit} errors={errors} hint={props.hint}>
       <input
         id={id}
-        ref={ref}
         type="text"
         inputMode="decimal"
         spellCheck={false}

@@ -137,6 +137,39 @@ const tests = [
     },
   },
   {
+    name: 'files: setup JSON saves and loads back, CSV exports carry units, plots save as PNG',
+    async fn({ ctx, url }) {
+      const page = await openApp(ctx, url);
+      await page.fill('#f-beam-particles', '3000');
+      await waitReady(page);
+      await stepTo(page, 30, 30);
+      const get = async (selector) => {
+        const [d] = await Promise.all([page.waitForEvent('download'), page.click(selector)]);
+        return { name: d.suggestedFilename(), path: await d.path() };
+      };
+      const json = await get('#save-setup');
+      const saved = JSON.parse(readFileSync(json.path, 'utf8'));
+      ok(saved.version === 1 && saved.beam.particles === 3000 && /fictional/i.test(saved.title), `saved setup: ${json.name}`);
+      // Header with units, then turns 0, 10, 20, 30 (run.diagnosticsEvery = 10).
+      const diag = readFileSync((await get('#export-diagnostics')).path, 'utf8').trim().split('\n');
+      ok(diag[0].startsWith('turn,time_s,alive,lost,meanDt_s') && diag.length === 5, `diagnostics CSV: ${diag[0]} (${diag.length} lines)`);
+      const parts = readFileSync((await get('#export-particles')).path, 'utf8').trim().split('\n');
+      ok(parts[0] === 'alive,dt_s,dE_eV' && parts.length === 3001, `particles CSV: ${parts[0]} (${parts.length} lines)`);
+      const png = await get('#plot-profile >> xpath=.. >> button');
+      ok(png.name.endsWith('.png') && readFileSync(png.path).subarray(1, 4).toString() === 'PNG', `profile image: ${png.name}`);
+      const phasePng = await get('section.phase button');
+      ok(readFileSync(phasePng.path).length > 5000, 'phase-space image is empty');
+      // Change a field, then load the saved file: the saved value comes back; a broken file is refused with reasons.
+      await page.fill('#f-ring-circumference', '190');
+      await page.setInputFiles('#load-setup-file', json.path);
+      await page.waitForFunction(() => document.getElementById('f-ring-circumference').value === '180');
+      await page.setInputFiles('#load-setup-file', { name: 'broken.json', mimeType: 'application/json', buffer: Buffer.from(JSON.stringify({ ...saved, ring: { ...saved.ring, circumference: -1 } })) });
+      const n = await (await page.waitForSelector('#notice.error')).textContent();
+      ok(/broken\.json was not loaded.*ring\.circumference = -1: must be in \[1, 100000\] m/.test(n), `notice: ${n}`);
+      ok((await page.inputValue('#f-ring-circumference')) === '180', 'a refused file must not change the setup');
+    },
+  },
+  {
     name: 'no long main-thread task while 1e6 particles are tracked; no request leaves localhost',
     async fn({ ctx, url, probe }) {
       await ctx.addInitScript(() => {
