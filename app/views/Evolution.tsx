@@ -7,7 +7,7 @@ import { useApp } from '../store.ts';
 import { energyUnit } from '../units.ts';
 import type { DiagRow } from '../../workers/protocol.ts';
 import { BASE_LAYOUT, CONFIG } from './Panel.tsx';
-import { scheduleDraw, whileRunning } from './schedule.ts';
+import { scheduleDraw } from './schedule.ts';
 
 interface Series {
   id: string;
@@ -56,7 +56,7 @@ function SmallPlot(props: { s: Series }) {
     }];
     const L = layout.current;
     L.datarevision = (L.datarevision as number) + 1;
-    scheduleDraw('evo-' + props.s.id, () => ref.current && Plotly.react(ref.current, data, L, CONFIG), whileRunning(MIN_GAP_MS));
+    scheduleDraw('evo-' + props.s.id, () => ref.current && Plotly.react(ref.current, data, L, CONFIG), MIN_GAP_MS);
   }, [log, props.s]);
   return (
     <figure className="small-plot">

@@ -13,7 +13,7 @@ import { energyUnit } from '../units.ts';
 import { chooseWindow } from '../viewWindow.ts';
 import { BASE_LAYOUT } from './Panel.tsx';
 import { savePng } from './png.ts';
-import { scheduleDraw, whileRunning } from './schedule.ts';
+import { scheduleDraw } from './schedule.ts';
 
 /** Density colours: pale paper to deep ink, empty cells left blank. */
 export const DENSITY_SCALE: [number, string][] = [[0, '#dfe8f1'], [0.25, '#8fb3d1'], [0.55, '#3f6f99'], [0.8, '#1f3b5c'], [1, '#0e1a2b']];
@@ -94,7 +94,7 @@ export function PhaseSpace() {
     data.push({ type: 'scatter', mode: 'markers', x: bv.stableDt.map((t) => t * 1e9), y: bv.stableDt.map(() => 0), marker: { symbol: 'circle-open', size: 8, color: SEP_COLOUR }, name: 'stable fixed point' });
     data.push({ type: 'scatter', mode: 'markers', x: bv.unstableDt.map((t) => t * 1e9), y: bv.unstableDt.map(() => 0), marker: { symbol: 'x-thin-open', size: 9, color: SEP_COLOUR, line: { width: 2, color: SEP_COLOUR } }, name: 'unstable fixed point' });
     setRanges(topLayout.current, xr, yr);
-    scheduleDraw('bucket', () => topRef.current && Plotly.react(topRef.current, data, topLayout.current, STATIC), whileRunning(BUCKET_GAP_MS));
+    scheduleDraw('bucket', () => topRef.current && Plotly.react(topRef.current, data, topLayout.current, STATIC), BUCKET_GAP_MS);
   }, [bv, key]);
 
   // Beam layer: density image or points.
@@ -117,7 +117,7 @@ export function PhaseSpace() {
         } as Data);
       }
       if (beamRef.current) Plotly.react(beamRef.current, data, beamLayout.current, STATIC);
-    }, whileRunning(BEAM_GAP_MS));
+    }, BEAM_GAP_MS);
   }, [frame, key, valid]);
 
   return (
@@ -125,7 +125,7 @@ export function PhaseSpace() {
       <header className="panel-head">
         <h2 id="phase-title">Phase space</h2>
         <span className="panel-note" id="phase-state">
-          {bv.bucket ? 'separatrix and fixed points (○ stable, × unstable)' : `no bucket: ${bv.reason}`}
+          {bv.bucket ? 'separatrix and fixed points (○ stable, × unstable)' : (bv.reason ?? 'no bucket').replace(/^(?!no bucket)/, 'no bucket: ')}
         </span>
         <button type="button" className="small" title="Save this plot as a PNG image" onClick={() => savePng([axesRef.current, beamRef.current, topRef.current], 'phasewell-phase-space')}>
           PNG

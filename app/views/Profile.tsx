@@ -4,7 +4,7 @@ import type { Data, Layout } from 'plotly.js';
 import Plotly from '../plotly.ts';
 import { useApp } from '../store.ts';
 import { BASE_LAYOUT, CONFIG, Panel } from './Panel.tsx';
-import { scheduleDraw, whileRunning } from './schedule.ts';
+import { scheduleDraw } from './schedule.ts';
 
 // Redraw at most this often while tracking [ms].
 const MIN_GAP_MS = 200;
@@ -35,7 +35,7 @@ export function Profile() {
     const L = layout.current;
     L.xaxis!.range = [v.dtMin * 1e9, v.dtMax * 1e9];
     L.datarevision = (L.datarevision as number) + 1;
-    scheduleDraw('profile', () => ref.current && Plotly.react(ref.current, data, L, CONFIG), whileRunning(MIN_GAP_MS));
+    scheduleDraw('profile', () => ref.current && Plotly.react(ref.current, data, L, CONFIG), MIN_GAP_MS);
   }, [frame]);
   return <Panel id="profile" title="Line density" plotRef={ref} />;
 }

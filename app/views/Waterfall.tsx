@@ -8,7 +8,7 @@ import type { ProfileRow } from '../../workers/protocol.ts';
 import { BASE_LAYOUT, CONFIG, Panel } from './Panel.tsx';
 import { DENSITY_SCALE } from './PhaseSpace.tsx';
 import { binCentresNs } from './Profile.tsx';
-import { scheduleDraw, whileRunning } from './schedule.ts';
+import { scheduleDraw } from './schedule.ts';
 
 // The history changes slowly: redraw at most this often while tracking [ms].
 const MIN_GAP_MS = 1000;
@@ -70,7 +70,7 @@ export function Waterfall() {
       } as Data];
       if (ref.current) Plotly.react(ref.current, data, L, CONFIG);
     };
-    scheduleDraw('waterfall', draw, whileRunning(MIN_GAP_MS));
+    scheduleDraw('waterfall', draw, MIN_GAP_MS);
   }, [profiles, frame]);
   return <Panel id="waterfall" title="Profile history" plotRef={ref} />;
 }

@@ -2,8 +2,9 @@
 // frame (oldest request first), so no single main-thread task grows long while the tracker streams frames.
 // Each plot is drawn in its own task posted from the animation-frame callback, not inside it: the browser's
 // style, layout and paint then form separate tasks instead of adding to the drawing ones.
-// A plot may ask for a minimum gap between its redraws (slow-changing plots need not follow every frame), and
-// the gap also grows with the plot's last drawing time, so a slow or busy machine gets fewer, not longer, redraws.
+// While the tracker runs, a plot may ask for a minimum gap between its redraws (slow-changing plots need not
+// follow every frame), and the gap also grows with the plot's last drawing time, so a slow or busy machine gets
+// fewer, not longer, redraws. When the tracker is idle, edits are drawn at once.
 import { useApp } from '../store.ts';
 
 interface Job {
@@ -18,6 +19,7 @@ const lastCost = new Map<string, number>();
 const DUTY = 8;
 
 function due(id: string, job: Job, now: number): boolean {
+  if (!useApp.getState().running) return true;
   const gap = Math.max(job.minGapMs, DUTY * (lastCost.get(id) ?? 0));
   return now - (lastDrawn.get(id) ?? -Infinity) >= gap;
 }
@@ -25,11 +27,6 @@ function due(id: string, job: Job, now: number): boolean {
 let queued = false;
 // Drawing time allowed per animation frame [ms]; leaves room for React and input under a 50 ms long-task limit.
 const SLICE_MS = 12;
-
-/** The gap to ask for: the given one while the tracker runs, none when it is idle (show the final state now). */
-export function whileRunning(gapMs: number): number {
-  return useApp.getState().running ? gapMs : 0;
-}
 
 /** Ask for plot `id` to be drawn by `draw` (a newer request replaces an older one). */
 export function scheduleDraw(id: string, draw: () => void, minGapMs = 0): void {
