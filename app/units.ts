@@ -30,6 +30,7 @@ export function energyUnit(maxAbsEv: number): Unit {
 
 /** Time as ns, µs or ms. */
 export function fmtTime(s: number): string {
+  if (!Number.isFinite(s)) return '—';
   const a = Math.abs(s);
   if (a < 1e-6) return `${fmt(s * 1e9)} ns`;
   if (a < 1e-3) return `${fmt(s * 1e6)} µs`;
@@ -39,6 +40,7 @@ export function fmtTime(s: number): string {
 
 /** Energy as eV, keV, MeV or GeV. */
 export function fmtEnergy(ev: number): string {
+  if (!Number.isFinite(ev)) return '—';
   const a = Math.abs(ev);
   if (a < 1e3) return `${fmt(ev)} eV`;
   if (a < 1e6) return `${fmt(ev / 1e3)} keV`;
@@ -48,6 +50,7 @@ export function fmtEnergy(ev: number): string {
 
 /** Frequency as Hz, kHz, MHz. */
 export function fmtFreq(hz: number): string {
+  if (!Number.isFinite(hz)) return '—';
   const a = Math.abs(hz);
   if (a < 1e3) return `${fmt(hz)} Hz`;
   if (a < 1e6) return `${fmt(hz / 1e3)} kHz`;

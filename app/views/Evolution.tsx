@@ -8,6 +8,7 @@ import { energyUnit } from '../units.ts';
 import type { DiagRow } from '../../workers/protocol.ts';
 import { BASE_LAYOUT, CONFIG } from './Panel.tsx';
 import { scheduleDraw } from './schedule.ts';
+import { useResize } from './useResize.ts';
 
 interface Series {
   id: string;
@@ -37,6 +38,7 @@ function SmallPlot(props: { s: Series }) {
     datarevision: 0,
   });
   const title = useRef<HTMLHeadingElement>(null);
+  useResize(ref, 'evo-' + props.s.id);
   const log = useApp((s) => s.log);
   useEffect(() => {
     if (log.length === 0) return;
@@ -51,7 +53,9 @@ function SmallPlot(props: { s: Series }) {
     }
     if (title.current) title.current.textContent = label;
     const data: Data[] = [{
-      type: 'scatter', mode: 'lines', x: log.map((r) => r.turn), y: log.map((r) => props.s.pick(r) * k),
+      // Markers while there are too few points to draw a line.
+      type: 'scatter', mode: log.length < 3 ? 'markers' : 'lines', marker: { size: 4, color: '#1f3b5c' },
+      x: log.map((r) => r.turn), y: log.map((r) => props.s.pick(r) * k),
       line: { color: '#1f3b5c', width: 1.3 }, name: props.s.id, hovertemplate: 'turn %{x}<br>%{y:.4g}<extra></extra>',
     }];
     const L = layout.current;

@@ -1,9 +1,11 @@
 // A titled plot panel with a PNG export button; the plot div is handed to the view that draws it.
 import type { ReactNode, RefObject } from 'react';
 import { savePng } from './png.ts';
+import { useResize } from './useResize.ts';
 
 /** Panel frame around one Plotly plot. */
 export function Panel(props: { id: string; title: string; plotRef: RefObject<HTMLDivElement | null>; extra?: ReactNode; className?: string }) {
+  useResize(props.plotRef, props.id);
   const png = () => savePng([props.plotRef.current], `phasewell-${props.id}`);
   return (
     <section className={'panel ' + (props.className ?? '')} aria-labelledby={props.id + '-title'}>

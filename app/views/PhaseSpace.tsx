@@ -14,6 +14,7 @@ import { chooseWindow } from '../viewWindow.ts';
 import { BASE_LAYOUT } from './Panel.tsx';
 import { savePng } from './png.ts';
 import { scheduleDraw } from './schedule.ts';
+import { useResize } from './useResize.ts';
 
 /** Density colours: pale paper to deep ink, empty cells left blank. */
 export const DENSITY_SCALE: [number, string][] = [[0, '#dfe8f1'], [0.25, '#8fb3d1'], [0.55, '#3f6f99'], [0.8, '#1f3b5c'], [1, '#0e1a2b']];
@@ -68,6 +69,9 @@ export function PhaseSpace() {
   const axesLayout = useRef(layer('axes'));
   const beamLayout = useRef(layer('beam'));
   const topLayout = useRef(layer('bucket'));
+  useResize(axesRef, 'phase-axes');
+  useResize(beamRef, 'phase-beam');
+  useResize(topRef, 'phase-bucket');
   const valid = useApp((s) => s.valid);
   const frame = useApp((s) => s.frame);
   const bv = useApp((s) => bucketAt(s.valid, shownEnergy(s)));
