@@ -45,7 +45,7 @@ export function App() {
       <header className="topbar">
         <h1>Phasewell</h1>
         <PresetPicker />
-        <span className="setup-title" id="setup-title">
+        <span className="setup-title" id="setup-title" title={title}>
           {title || 'untitled setup'}
           {fictional ? <span className="badge" title="An invented machine for demonstration, not a real accelerator">fictional machine</span> : null}
         </span>

@@ -1,8 +1,8 @@
 // Physics derived from the valid setup on the main thread: machine state, bucket, separatrix, fixed points and
-// tune, memoised on (setup object, energy) so a render never recomputes them. The matched-bunch numbers come
+// tune, memoised on (setup object, run point) so a render never recomputes them. The matched-bunch numbers come
 // with the beam from the worker instead: matching takes ~0.1 s, too long for the main thread.
 import { computeBucket, dtOfPhase, fixedPoints, separatrix, type BucketInfo } from '../core/bucket.ts';
-import { machineAtStart, type MachineState } from '../core/machine.ts';
+import { MachineStepper, type MachineState } from '../core/machine.ts';
 import type { Setup } from '../core/setup/schema.ts';
 import { smallAmplitudeTune } from '../core/synchrotron.ts';
 
@@ -21,21 +21,27 @@ export interface BucketView {
   fs: number;
 }
 
-/** The setup moved to another synchronous energy (total, eV): the machine at a later turn of the same program. */
-export function atEnergy(setup: Setup, Es: number): Setup {
-  return { ...setup, energy: { ...setup.energy, start: { quantity: 'total', value: Es } } };
+/** Where the tracker is: turn, time since turn 0 [s] and p·c of the synchronous particle [eV]. */
+export interface RunPoint {
+  turn: number;
+  time: number;
+  pc: number;
 }
 
-// A few recent results: the turn-0 bucket and the bucket at the tracker's energy are asked for alternately.
+// A few recent results: the turn-0 bucket and the bucket at the tracker's turn are asked for alternately.
 const CACHE_SIZE = 4;
-const cache: { setup: Setup; Es: number | null; view: BucketView }[] = [];
+const cache: { setup: Setup; at: RunPoint | null; view: BucketView }[] = [];
+const same = (a: RunPoint | null, b: RunPoint | null) => a === b || (!!a && !!b && a.turn === b.turn && a.pc === b.pc && a.time === b.time);
 
-/** Bucket of a setup at turn 0 (Es null) or at a given synchronous energy (same object for the same inputs). */
-export function bucketAt(setup: Setup, Es: number | null): BucketView {
-  const hit = cache.find((c) => c.setup === setup && c.Es === Es);
+/** Bucket of a setup at turn 0 (at = null) or where the tracker is (same object for the same inputs). */
+export function bucketAt(setup: Setup, at: RunPoint | null): BucketView {
+  const hit = cache.find((c) => c.setup === setup && same(c.at, at));
   if (hit) return hit.view;
-  const view = computeView(machineAtStart(Es === null ? setup : atEnergy(setup, Es)));
-  cache.unshift({ setup, Es, view });
+  const stepper = new MachineStepper(setup);
+  // Programs (ramp tables, RF voltage tables, timed slope) depend on time: resume the machine at the run point.
+  if (at) stepper.resumeAt(at.turn, at.time, at.pc);
+  const view = computeView(stepper.state);
+  cache.unshift({ setup, at, view });
   if (cache.length > CACHE_SIZE) cache.pop();
   return view;
 }

@@ -4,7 +4,7 @@
 import * as Comlink from 'comlink';
 import type { Setup } from '../core/setup/schema.ts';
 import type { RunFrame, TrackApi, ViewWindow } from '../workers/protocol.ts';
-import { bucketAt } from './derived.ts';
+import { bucketAt, type RunPoint } from './derived.ts';
 import { useApp, type AppState } from './store.ts';
 import { chooseWindow, needsRefit } from './viewWindow.ts';
 import { drawsDue } from './views/schedule.ts';
@@ -33,9 +33,15 @@ export function startRunner(): void {
   requestAnimationFrame(tick);
 }
 
-/** Synchronous energy at which the bucket is shown: the tracker's current one once it has run. */
-export function shownEnergy(s: Pick<AppState, 'frame'>): number | null {
-  return s.frame && s.frame.turn > 0 ? s.frame.Es : null;
+// The last run point handed out, so equal points are the same object (stable store selectors).
+let lastPoint: RunPoint | null = null;
+
+/** Where the bucket is shown: the tracker's current turn once it has run, else turn 0 (null). */
+export function shownPoint(s: Pick<AppState, 'frame'>): RunPoint | null {
+  const f = s.frame;
+  if (!f || f.turn === 0) return null;
+  if (!lastPoint || lastPoint.turn !== f.turn || lastPoint.pc !== f.pc || lastPoint.time !== f.time) lastPoint = { turn: f.turn, time: f.time, pc: f.pc };
+  return lastPoint;
 }
 
 /** Run until the setup's turn count (or that many more turns when already past it). */
@@ -139,7 +145,7 @@ function accept(f: RunFrame, fresh: boolean): void {
     status: running ? 'running' : 'ready',
     statusMessage: running ? `tracking: ${f.turnsDone} turns in ${f.trackMs.toFixed(0)} ms` : fresh || f.turn === 0 ? 'ready' : `paused at turn ${f.turn}`,
   });
-  const want = chooseWindow(bucketAt(s.valid, f.turn > 0 ? f.Es : null), f.current);
+  const want = chooseWindow(bucketAt(s.valid, shownPoint({ frame: f })), f.current);
   if (view && needsRefit(view, want)) {
     view = want;
     redraw = true;

@@ -43,6 +43,8 @@ export interface RunFrame {
   time: number;
   /** Total energy of the synchronous particle at this turn [eV]. */
   Es: number;
+  /** Its momentum p·c [eV] (with turn and time, where the machine resumes). */
+  pc: number;
   /** Diagnostics of the current state. */
   current: DiagRow;
   /** Rows logged during this call (every run.diagnosticsEvery turns). */

@@ -46,7 +46,7 @@ function frameOf(rows: DiagRow[], profiles: RunFrame['profiles'], v: ViewWindow,
   const last = rows[rows.length - 1];
   const current = last && last.turn === t.turn ? last : diagnose(t, s);
   const frame: RunFrame = {
-    turn: t.turn, time: m.time, Es: m.Es, current, rows, profiles, view: v, hist, profile, points, trackMs, turnsDone,
+    turn: t.turn, time: m.time, Es: m.Es, pc: m.pc, current, rows, profiles, view: v, hist, profile, points, trackMs, turnsDone,
   };
   const buffers: ArrayBuffer[] = [hist.buffer as ArrayBuffer, profile.buffer as ArrayBuffer, ...profiles.map((p) => p.profile.buffer as ArrayBuffer)];
   if (points) buffers.push(points.dt.buffer as ArrayBuffer, points.dE.buffer as ArrayBuffer);

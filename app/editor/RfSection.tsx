@@ -5,7 +5,10 @@ import { getIn } from '../paths.ts';
 import { BlockIssues, NumberField, SelectField } from './Field.tsx';
 import { Section } from './Section.tsx';
 
-const SLOPES: [string, string][] = [['auto', 'automatic (follows the slip factor)'], ['rising', 'rising (below transition)'], ['falling', 'falling (above transition)']];
+const SLOPES: [string, string][] = [
+  ['auto', 'automatic (follows the slip factor)'], ['rising', 'rising (below transition)'], ['falling', 'falling (above transition)'],
+  ['timed', 'switch at a set time'],
+];
 const MAX_SYSTEMS = 8;
 
 function systems(): unknown[] {
@@ -40,6 +43,7 @@ export function RfSection() {
     const v = getIn(s.draft, ['rf', 'systems']);
     return Array.isArray(v) ? v.length : 0;
   });
+  const timed = useApp((s) => getIn(s.draft, ['rf', 'slope']) === 'timed');
   return (
     <Section title="RF systems" id="rf">
       <BlockIssues path={['rf', 'systems']} />
@@ -57,12 +61,30 @@ export function RfSection() {
           <NumberField path={['rf', 'systems', i, 'voltage']} label="Peak voltage" unit="kV" toDisplay={1e-3} />
           <NumberField path={['rf', 'systems', i, 'phase']} label="Phase offset" unit="deg" hint="in this system's own degrees; 180 for bunch lengthening" />
           <NumberField path={['rf', 'systems', i, 'position']} label="Position around the ring" unit="of C" hint="fraction of the circumference, 0 to < 1" />
+          <ProgramNote i={i} />
         </fieldset>
       ))}
       <button type="button" className="add" disabled={count >= MAX_SYSTEMS} onClick={add}>
         Add RF system
       </button>
-      <SelectField path={['rf', 'slope']} label="Stable slope" options={SLOPES} />
+      <SelectField
+        path={['rf', 'slope']}
+        label="Stable slope"
+        options={SLOPES}
+        onPick={(v) => {
+          editField(['rf', 'slope'], v);
+          editField(['rf', 'switchTime'], v === 'timed' ? 0.01 : undefined);
+        }}
+      />
+      {timed ? <NumberField path={['rf', 'switchTime']} label="Slope switch at" unit="ms" toDisplay={1e3} /> : null}
     </Section>
   );
+}
+
+// Voltage and phase programs are tables: edited in the setup file, summarised here.
+function ProgramNote(props: { i: number }) {
+  const prog = useApp((s) => getIn(s.draft, ['rf', 'systems', props.i, 'program'])) as { voltage?: unknown[]; phase?: unknown[] } | undefined;
+  if (!prog) return null;
+  const parts = [prog.voltage ? `voltage (${prog.voltage.length} points)` : '', prog.phase ? `phase (${prog.phase.length} points)` : ''].filter(Boolean);
+  return <p className="field-note">Program in time: {parts.join(', ')}; edit it in the setup file.</p>;
 }

@@ -7,7 +7,7 @@ import { useEffect, useRef } from 'react';
 import type { Data, Layout } from 'plotly.js';
 import Plotly from '../plotly.ts';
 import { bucketAt } from '../derived.ts';
-import { shownEnergy } from '../runner.ts';
+import { shownPoint } from '../runner.ts';
 import { useApp } from '../store.ts';
 import { energyUnit } from '../units.ts';
 import { chooseWindow } from '../viewWindow.ts';
@@ -74,7 +74,7 @@ export function PhaseSpace() {
   useResize(topRef, 'phase-bucket');
   const valid = useApp((s) => s.valid);
   const frame = useApp((s) => s.frame);
-  const bv = useApp((s) => bucketAt(s.valid, shownEnergy(s)));
+  const bv = useApp((s) => bucketAt(s.valid, shownPoint(s)));
   const win = chooseWindow(bv, frame?.current ?? null);
   const eu = energyUnit(win.dEMax);
   const k = eu.toDisplay;

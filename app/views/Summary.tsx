@@ -1,7 +1,7 @@
 // Numbers of the bucket at the shown energy and of the beam now. Each value carries its full-precision number
 // in data-value, so it can be compared exactly (the browser tests read it).
 import { bucketAt } from '../derived.ts';
-import { shownEnergy } from '../runner.ts';
+import { shownPoint } from '../runner.ts';
 import { useApp } from '../store.ts';
 import { fmt, fmtEnergy, fmtFreq, fmtTime } from '../units.ts';
 
@@ -21,9 +21,9 @@ function Item(props: { id: string; label: string; value: number; text?: string; 
 /** The bucket and beam summary panel. */
 export function Summary() {
   const valid = useApp((s) => s.valid);
-  const Es = useApp((s) => shownEnergy(s));
+  const at = useApp((s) => shownPoint(s));
   const cur = useApp((s) => s.frame?.current ?? null);
-  const v = bucketAt(valid, Es);
+  const v = bucketAt(valid, at);
   const mb = useApp((s) => s.matched);
   const m = v.m;
   const b = v.bucket;
@@ -31,7 +31,7 @@ export function Summary() {
     <section className="panel summary" aria-labelledby="summary-title">
       <header className="panel-head">
         <h2 id="summary-title">Bucket and beam</h2>
-        <span className="panel-note">{Es === null ? 'at turn 0' : `at the current turn, E = ${fmtEnergy(m.Es)}`}</span>
+        <span className="panel-note">{at === null ? 'at turn 0' : `at the current turn, E = ${fmtEnergy(m.Es)}`}</span>
       </header>
       <div className="summary-cols">
         <dl>
