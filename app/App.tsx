@@ -47,8 +47,12 @@ export function App() {
         <PresetPicker />
         <span className="setup-title" id="setup-title" title={title}>
           {title || 'untitled setup'}
-          {fictional ? <span className="badge" title="An invented machine for demonstration, not a real accelerator">fictional machine</span> : null}
         </span>
+        {fictional ? (
+          <span className="badge" id="fictional-badge" title="An invented machine for demonstration, not a real accelerator">
+            fictional machine
+          </span>
+        ) : null}
         <FileActions />
       </header>
       <RunControls />

@@ -27,6 +27,7 @@ const tests = [
       ok(!(await page.content()).includes('WebGL is not supported'), 'a plot says WebGL is not supported');
       ok((await page.textContent('#caution')).includes('design exploration'), 'caution sentence missing');
       ok((await page.textContent('#setup-title')).toLowerCase().includes('fictional'), 'fictional label missing');
+      ok(await page.isVisible('#fictional-badge'), 'fictional-machine badge not visible');
     },
   },
   {
