@@ -5,6 +5,7 @@ import { makeParticle } from '../particle.ts';
 import { fmtNum } from './fields.ts';
 import { migrate } from './migrate.ts';
 import { setupSchema, type Setup } from './schema.ts';
+import { rampErrors } from './warnings.ts';
 
 export interface SetupIssue {
   /** Dotted field path, e.g. "rf.systems[0].voltage". */
@@ -54,6 +55,9 @@ function crossChecks(s: Setup): SetupIssue[] {
     out.push({ path: 'energy.start.quantity', value: st.quantity, message: 'energy per nucleon needs an ion or a proton' });
   if (s.energy.ramp.kind === 'bDot' && s.ring.bendingRadius === undefined)
     out.push({ path: 'ring.bendingRadius', value: undefined, message: 'a B-field ramp (bDot) needs the bending radius' });
+  const h = s.rf.systems[0].harmonic, M = s.intensity?.bunches ?? 1;
+  if (h % M !== 0) out.push({ path: 'intensity.bunches', value: M, message: `must divide the main harmonic number h = ${h} (equally spaced bunches)` });
+  if (!out.length) out.push(...rampErrors(s));
   return out;
 }
 

@@ -1,0 +1,114 @@
+// Physics checks of a schema-valid setup. `rampErrors`: energy programs that would take the synchronous particle
+// to zero momentum (below its rest energy): impossible, so parseSetup refuses them. `setupWarnings`: setups that
+// run but may not mean what the user thinks (linear drift near transition, no bucket at turn 0, odd harmonics).
+// Units: energies and p·c in eV, times in s, lengths in m, fields in T.
+import { C_LIGHT } from '../constants.ts';
+import { fromMomentum } from '../kinematics.ts';
+import { MachineStepper, startKinematics } from '../machine.ts';
+import { makeParticle, type Particle } from '../particle.ts';
+import { linearlyMatchedSpread } from '../beam/unmatched.ts';
+import { fmtNum } from './fields.ts';
+import type { Setup } from './schema.ts';
+import type { SetupIssue } from './validate.ts';
+
+// Linear drift is trusted while the second-order term stays below this fraction of the first: common practice.
+const NONLINEAR_FRACTION = 0.3;
+// Beam half-extent in δ taken as this many rms (the tails that reach furthest): common practice.
+const SIGMAS = 3;
+// Rate ramps are followed in batches that change p·c by at most this fraction (timing error of the same order).
+const BATCH_CHANGE = 0.01;
+
+/** Impossible energy programs: every program value must give p·c > 0, and a falling rate ramp must not reach p·c = 0 within run.turns. */
+export function rampErrors(s: Setup): SetupIssue[] {
+  const p = makeParticle(s.particle);
+  const r = s.energy.ramp;
+  const out: SetupIssue[] = [];
+  const floor = (q: string) => (q === 'total' ? p.mass : 0);
+  const below = (q: string) => (q === 'total' ? `the rest energy ${fmtNum(p.mass)} eV` : '0');
+  if (r.kind === 'table') {
+    const k = r.points.findIndex(([, v]) => v <= floor(r.quantity));
+    if (k >= 0)
+      out.push({ path: `energy.ramp.points[${k}][1]`, value: r.points[k][1], message: `a ${r.quantity} program value must exceed ${below(r.quantity)} (the particle would stop)` });
+  } else if (r.kind === 'smooth' && r.target <= floor(r.quantity)) {
+    out.push({ path: 'energy.ramp.target', value: r.target, message: `a ${r.quantity} target must exceed ${below(r.quantity)} (the particle would stop)` });
+  } else if (r.kind === 'gainPerTurn' && r.value < 0) {
+    const E0 = startKinematics(s, p).E;
+    const turns = Math.floor((E0 - p.mass) / -r.value);
+    if (turns < s.run.turns) out.push(stopIssue(r.value, 'eV', turns, s, p));
+  } else if ((r.kind === 'momentumRate' || r.kind === 'bDot') && r.value < 0) {
+    const rate = r.kind === 'momentumRate' ? r.value : Math.abs(p.Z) * C_LIGHT * (s.ring.bendingRadius ?? 0) * r.value; // d(pc)/dt [eV/s]
+    const turns = turnsToStop(startKinematics(s, p).pc, rate, s.ring.circumference, p.mass, s.run.turns);
+    if (turns < s.run.turns) out.push(stopIssue(r.value, r.kind === 'bDot' ? 'T/s' : 'eV/s', turns, s, p));
+  }
+  return out;
+}
+
+function stopIssue(value: number, unit: string, turns: number, s: Setup, p: Particle): SetupIssue {
+  return {
+    path: 'energy.ramp.value', value,
+    message: `this ${unit} ramp brings the ${p.name} to rest (p·c = 0, energy at its rest energy ${fmtNum(p.mass)} eV) after about ${turns} turns, ` +
+      `within run.turns = ${s.run.turns}; use a smaller rate or at most ${Math.max(1, turns - 1)} turns`,
+  };
+}
+
+// Turns until p·c reaches 0 under a constant negative rate (eV/s), or `limit` if it does not within `limit` turns.
+function turnsToStop(pc0: number, rate: number, C: number, mass: number, limit: number): number {
+  let pc = pc0, n = 0;
+  while (n < limit) {
+    const T0 = C / (fromMomentum(pc, mass).beta * C_LIGHT);
+    const step = rate * T0; // < 0
+    const k = Math.min(limit - n, Math.max(1, Math.floor((BATCH_CHANGE * pc) / -step)));
+    pc += k * step;
+    n += k;
+    if (!(pc > 0)) return n;
+  }
+  return limit;
+}
+
+/** Warnings for a valid setup (it runs, but check these): each names the field, its value and why. */
+export function setupWarnings(s: Setup): SetupIssue[] {
+  const out: SetupIssue[] = [];
+  const sys = s.rf.systems;
+  const h1 = sys[0].harmonic;
+  sys.forEach((r, k) => {
+    if (k > 0 && r.harmonic % h1 !== 0)
+      out.push({ path: `rf.systems[${k}].harmonic`, value: r.harmonic, message: `is not a multiple of the main harmonic ${h1}: neighbouring buckets differ, and only the one at the main system's phase is shown` });
+    const j = sys.findIndex((q, i) => i < k && q.harmonic === r.harmonic && q.position === r.position);
+    if (j >= 0)
+      out.push({ path: `rf.systems[${k}].harmonic`, value: r.harmonic, message: `same harmonic and position as rf.systems[${j}]: the two act as one system (their voltages add as phasors)` });
+  });
+  let m;
+  try {
+    m = new MachineStepper(s).state;
+  } catch (e) {
+    return [...out, { path: '', value: undefined, message: `the machine cannot be set up: ${(e as Error).message}` }];
+  }
+  if (m.noBucket) out.push({ path: 'rf.systems[0].voltage', value: sys[0].voltage, message: `${m.noBucket} at turn 0 (only a coasting beam can be tracked)` });
+  if (s.run.drift === 'linear') {
+    const d = SIGMAS * deltaRms(s, m);
+    const second = Math.abs(m.eta1) * d;
+    if (!(second < NONLINEAR_FRACTION * Math.abs(m.eta0)))
+      out.push({
+        path: 'run.drift', value: 'linear',
+        message: `near transition: |η0| = ${fmtNum(Math.abs(m.eta0))} is not large against |η1|·δ = ${fmtNum(second)} ` +
+          `(δ ≈ ${SIGMAS}σ of the beam = ${fmtNum(d)}), so the linear drift misrepresents the motion; use "exact"`,
+      });
+  }
+  return out;
+}
+
+// Rough rms δ of the requested beam from linear matching, PHYSICS.md §9 (capped by the momentum aperture).
+function deltaRms(s: Setup, m: MachineStepper['state']): number {
+  const d = s.beam.distribution, b2E = m.beta * m.beta * m.Es;
+  let sigmaE: number;
+  if (d.kind === 'coasting') sigmaE = d.rmsEnergySpread;
+  else if (d.kind === 'unmatched') sigmaE = d.mismatch * linearlyMatchedSpread(m, d.rmsLength);
+  else if (d.size.by === 'rmsLength') sigmaE = linearlyMatchedSpread(m, d.size.value);
+  else {
+    // σt·σE = ε_rms; σE/σt = β²E·ωs/|η| (linear matching); the contour of a parabolic bunch is about 6π ε_rms (common practice).
+    const eRms = d.size.convention === 'rms' ? d.size.value : d.size.value / (d.size.convention === 'fourSigma' ? 4 * Math.PI : 6 * Math.PI);
+    sigmaE = Math.sqrt(eRms * linearlyMatchedSpread(m, 1));
+  }
+  const delta = sigmaE / b2E;
+  return Number.isFinite(delta) ? Math.min(delta, s.run.momentumAperture) : s.run.momentumAperture;
+}
