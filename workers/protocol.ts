@@ -2,6 +2,7 @@
 import type { Setup } from '../core/setup/schema.ts';
 import type { TurnDiagnostics } from '../core/diagnostics/index.ts';
 import type { MatchedInfo } from '../core/beam/index.ts';
+import type { MachineEvent } from '../core/program/index.ts';
 
 /** One row of per-turn diagnostics (the core's record). */
 export type DiagRow = TurnDiagnostics;
@@ -59,10 +60,15 @@ export interface RunFrame {
   points: { dt: Float64Array; dE: Float64Array } | null;
   /** Matched-bunch numbers of a freshly generated matched beam (init/reset frames only; null otherwise). */
   matched?: MatchedInfo | null;
+  /** The machine's events since turn 0 (transition switch, bucket lost or regained), at most the last MAX_EVENTS. */
+  events?: MachineEvent[];
   /** Milliseconds spent tracking in this call. */
   trackMs: number;
   turnsDone: number;
 }
+
+/** Events a frame carries at most (a flickering bucket could log one every turn). */
+export const MAX_EVENTS = 50;
 
 /** The worker's API (exposed with comlink). */
 export interface TrackApi {

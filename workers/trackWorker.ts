@@ -7,7 +7,7 @@ import { computeDiagnostics, histogram2d, lineDensity } from '../core/diagnostic
 import { machineAtStart, type MachineState } from '../core/machine.ts';
 import type { Setup } from '../core/setup/schema.ts';
 import { Tracker } from '../core/tracker.ts';
-import type { DiagRow, ProfileRow, RunFrame, RunRequest, TrackApi, ViewWindow } from './protocol.ts';
+import { MAX_EVENTS, type DiagRow, type ProfileRow, type RunFrame, type RunRequest, type TrackApi, type ViewWindow } from './protocol.ts';
 
 let setup: Setup | null = null;
 let tracker: Tracker | null = null;
@@ -47,6 +47,7 @@ function frameOf(rows: DiagRow[], profiles: RunFrame['profiles'], v: ViewWindow,
   const current = last && last.turn === t.turn ? last : diagnose(t, s);
   const frame: RunFrame = {
     turn: t.turn, time: m.time, Es: m.Es, pc: m.pc, current, rows, profiles, view: v, hist, profile, points, trackMs, turnsDone,
+    events: m.events.slice(-MAX_EVENTS),
   };
   const buffers: ArrayBuffer[] = [hist.buffer as ArrayBuffer, profile.buffer as ArrayBuffer, ...profiles.map((p) => p.profile.buffer as ArrayBuffer)];
   if (points) buffers.push(points.dt.buffer as ArrayBuffer, points.dE.buffer as ArrayBuffer);
