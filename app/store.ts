@@ -8,6 +8,7 @@ import { setIn, type PathSeg } from './paths.ts';
 import { defaultPreset } from './presets.ts';
 import type { DiagRow, ProfileRow, RunFrame } from '../workers/protocol.ts';
 import type { MatchedInfo } from '../core/beam/index.ts';
+import { INITIAL_CYCLE, INITIAL_INTENSITY, type CycleState, type IntensityState } from './cycle/types.ts';
 
 /** What the tracker is doing. */
 export type RunStatus = 'starting' | 'ready' | 'running' | 'done' | 'error';
@@ -47,6 +48,10 @@ export interface AppState {
   runIssue: { path: string; text: string } | null;
   /** Matched-bunch numbers of the beam as generated (computed with it in the worker), null if not matched. */
   matched: MatchedInfo | null;
+  /** Cycle planner settings and results, design-helper proposal (app/cycle). */
+  cycle: CycleState;
+  /** Intensity report of the valid setup (app/intensity). */
+  intensity: IntensityState;
 }
 
 const first = defaultPreset();
@@ -69,6 +74,8 @@ export const useApp = create<AppState>(() => ({
   logVersion: 0,
   matched: null,
   runIssue: null,
+  cycle: INITIAL_CYCLE,
+  intensity: INITIAL_INTENSITY,
 }));
 
 /** Replace the draft; if it validates it becomes the running setup, else the last valid one keeps running. */
