@@ -28,7 +28,17 @@ export function fractionEmittances(b: Bunch, mom: SecondMoments, qs: readonly nu
     J[i] = a * x * x + 2 * c * x * y + d * y * y;
   }
   const eps = Math.sqrt(det);
-  return qs.map((q) => Math.PI * selectKth(J, n, Math.max(0, Math.ceil(q * n) - 1)) * eps);
+  // Ascending ranks: after selecting rank k, J[k..n) holds the larger values, so the next rank searches only there.
+  const ranks = qs.map((q) => Math.min(n - 1, Math.max(0, Math.ceil(q * n) - 1)));
+  const order = ranks.map((_, i) => i).sort((x, y) => ranks[x] - ranks[y]);
+  const out = new Array<number>(qs.length);
+  let from = 0;
+  for (const i of order) {
+    const k = ranks[i];
+    out[i] = Math.PI * selectKth(from === 0 ? J : J.subarray(from), n - from, k - from) * eps;
+    from = k;
+  }
+  return out;
 }
 
 /** k-th smallest (0-based) of a[0..n), reordering a in place (Hoare quickselect, median-of-three pivot). */

@@ -5,3 +5,4 @@ export { fractionEmittances, selectKth, type SecondMoments } from './ellipse.ts'
 export { insideSeparatrix, type BucketLimits } from './inside.ts';
 export { centroidSpectrum } from './spectrum.ts';
 export { DiagnosticsLog } from './log.ts';
+export { partialMoments, mergeMoments, partialShape, diagnosticsFromParts, fwhmCounts, ACTION_BINS, ACTION_MAX, type PartialMoments, type PartialShape } from './partial.ts';

@@ -7,6 +7,7 @@ import type { Bunch } from '../bunch.ts';
 import type { MachineState } from '../machine.ts';
 import { fractionEmittances } from './ellipse.ts';
 import { insideSeparatrix } from './inside.ts';
+import { fwhmCounts } from './partial.ts';
 import { fwhm } from './profile.ts';
 
 /** One turn's reductions of the bunch (alive particles unless stated). */
@@ -66,19 +67,11 @@ export function computeDiagnostics(b: Bunch, m: MachineState, bucket: BucketInfo
   };
 }
 
-// FWHM of the line density on `bins` bins spanning the particles plus one empty bin on each side, so that
-// the half-maximum crossing can always be interpolated.
+// FWHM of the line density on `bins` bins spanning the particles plus one empty bin on each side (fwhmCounts).
 function profileFwhm(b: Bunch, tMin: number, tMax: number, bins: number): number {
   if (b.n === 0 || !(bins >= 3)) return NaN;
   if (!(tMax > tMin)) return 0;
-  const w = (tMax - tMin) / (bins - 2);
   if (profile.length !== bins) profile = new Float64Array(bins);
-  const p = profile;
-  p.fill(0);
-  const lo = tMin - w, inv = 1 / w, dt = b.dt, n = b.n;
-  for (let i = 0; i < n; i++) {
-    const ix = Math.min(bins - 2, Math.floor((dt[i] - lo) * inv)); // tMax lands in the last full bin
-    p[ix] += 1;
-  }
-  return fwhm(p, w);
+  fwhmCounts(b, tMin, tMax, profile);
+  return fwhm(profile, (tMax - tMin) / (bins - 2));
 }
