@@ -1,6 +1,9 @@
 // The page: header (presets, run controls, files), notice bar, setup editor | phase space and line density |
-// bucket numbers, evolution and profile history; the caution line is always at the bottom.
-import { useEffect } from 'react';
+// tabs: bucket numbers, evolution and profile history | the cycle | intensity; the caution line is always at the bottom.
+import { useEffect, useState } from 'react';
+import { startAnalysis } from './cycle/analysis.ts';
+import { CycleView } from './cycle/CycleView.tsx';
+import { IntensityView } from './intensity/IntensityView.tsx';
 import { SetupEditor } from './editor/SetupEditor.tsx';
 import { FileActions } from './FileActions.tsx';
 import { NoticeBar } from './Notice.tsx';
@@ -35,9 +38,40 @@ function useSpaceToRun() {
   }, []);
 }
 
+const TABS = [['beam', 'Beam'], ['cycle', 'Cycle'], ['intensity', 'Intensity']] as const;
+type Tab = (typeof TABS)[number][0];
+
+// The right column's tabs; only the open one is mounted (its plots draw from the store when opened).
+function RightColumn() {
+  const [tab, setTab] = useState<Tab>('beam');
+  return (
+    <div className="right-col">
+      <div className="tabs" role="tablist" aria-label="Views">
+        {TABS.map(([id, label]) => (
+          <button key={id} type="button" role="tab" id={'tab-' + id} aria-selected={tab === id} className={tab === id ? 'tab on' : 'tab'} onClick={() => setTab(id)}>
+            {label}
+          </button>
+        ))}
+      </div>
+      {tab === 'beam' ? (
+        <>
+          <Summary />
+          <Evolution />
+          <Waterfall />
+        </>
+      ) : tab === 'cycle' ? (
+        <CycleView />
+      ) : (
+        <IntensityView />
+      )}
+    </div>
+  );
+}
+
 /** The application shell. */
 export function App() {
   useSpaceToRun();
+  useEffect(startAnalysis, []);
   const title = useApp((s) => s.valid.title);
   const fictional = /fictional/i.test(title);
   return (
@@ -65,11 +99,7 @@ export function App() {
           <PhaseSpace />
           <Profile />
         </div>
-        <div className="right-col">
-          <Summary />
-          <Evolution />
-          <Waterfall />
-        </div>
+        <RightColumn />
       </main>
       <footer className="caution" id="caution">
         {CAUTION} Presets describe invented (fictional) machines.

@@ -6,6 +6,7 @@ import { deflateSync, strToU8 } from 'fflate';
 import { serve } from './server.mjs';
 import { ok, runAll } from './harness.mjs';
 import { openApp, stepTo, summary, traces, waitReady } from './page.mjs';
+import { cycleTests } from './cycle.mjs';
 
 const ROOT = new URL('../../', import.meta.url).pathname;
 const ARTIFACTS = ROOT + 'test-artifacts/';
@@ -235,6 +236,7 @@ const tests = [
       }
     },
   },
+  ...cycleTests,
 ];
 
 const server = await serve(ROOT + 'dist');
