@@ -73,7 +73,9 @@ export function RfSection() {
         options={SLOPES}
         onPick={(v) => {
           editField(['rf', 'slope'], v);
-          editField(['rf', 'switchTime'], v === 'timed' ? 0.01 : undefined);
+          // Prefilled with the time γ crosses γt when the cycle planner found one.
+          const tt = useApp.getState().cycle.plan?.transitionTime ?? NaN;
+          editField(['rf', 'switchTime'], v === 'timed' ? (Number.isFinite(tt) ? Number(tt.toPrecision(6)) : 0.01) : undefined);
         }}
       />
       {timed ? <NumberField path={['rf', 'switchTime']} label="Slope switch at" unit="ms" toDisplay={1e3} /> : null}

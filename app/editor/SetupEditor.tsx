@@ -4,6 +4,7 @@ import { formatIssue } from '../../core/setup/validate.ts';
 import { useApp } from '../store.ts';
 import { BeamSection, RunSection } from './BeamSection.tsx';
 import { CollectiveSection } from './CollectiveSection.tsx';
+import { ProgramSection } from './ProgramSection.tsx';
 import { RfSection } from './RfSection.tsx';
 import { EnergySection, RingSection } from './RingSection.tsx';
 
@@ -31,6 +32,7 @@ export function SetupEditor() {
       <RingSection />
       <RfSection />
       <EnergySection />
+      <ProgramSection />
       <BeamSection />
       <CollectiveSection />
       <RunSection />
