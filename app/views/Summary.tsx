@@ -4,6 +4,7 @@ import { bucketAt } from '../derived.ts';
 import { shownPoint } from '../runner.ts';
 import { useApp } from '../store.ts';
 import { fmt, fmtEnergy, fmtFreq, fmtTime } from '../units.ts';
+import { CollectiveNumbers } from '../intensity/CollectiveNumbers.tsx';
 
 const RAD2DEG = 180 / Math.PI;
 
@@ -55,6 +56,7 @@ export function Summary() {
           <Item id="inside" label="inside bucket / lost" value={cur?.insideFraction ?? NaN} text={cur ? `${fmt(cur.insideFraction * 100)} % / ${cur.lost}` : '—'} />
         </dl>
       </div>
+      <CollectiveNumbers setup={valid} m={m} />
       {v.reason ? <p className="warn" role="status">{v.reason}</p> : null}
     </section>
   );
