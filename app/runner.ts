@@ -1,23 +1,34 @@
 // Drives the tracking worker from the store: (re)generates the beam when the beam block changes, forwards
 // other setup changes (applied at the next turn, beam kept), and while running asks for one short call per
-// animation frame. Only this module talks to the worker.
-import * as Comlink from 'comlink';
+// animation frame. Only this module talks to the workers (through workers/pool.ts: one or two workers).
+// Supervision: when the pool reports a failed or silent worker, a new pool replaces it, the notice bar says so,
+// and the same setup is generated again from turn 0 (the setup itself, and so the URL, is untouched).
 import type { Setup } from '../core/setup/schema.ts';
-import type { RunFrame, TrackApi, ViewWindow } from '../workers/protocol.ts';
+import type { RunFrame, ViewWindow } from '../workers/protocol.ts';
+import { TrackPool } from '../workers/pool.ts';
 import { bucketAt, type RunPoint } from './derived.ts';
 import { useApp, type AppState } from './store.ts';
 import { chooseWindow, needsRefit } from './viewWindow.ts';
 import { drawsDue } from './views/schedule.ts';
 
-/** Particle coordinates come back as points (not only a histogram) below this count. */
-export const POINTS_MAX = 20_000;
+/** Particle coordinates come back as points (not only a histogram) up to this count: SVG points stay a short draw. */
+export const POINTS_MAX = 5_000;
 /** Worker time budget per call [ms]: short enough for a fresh picture every frame or two. */
 const BUDGET_MS = 40;
 /** Profiles kept for the waterfall. */
 const WATERFALL_ROWS = 300;
 
-let api: Comlink.Remote<TrackApi> | null = null;
+let api: TrackPool | null = null;
+// Pool generation: answers from a replaced pool are dropped.
+let gen = 0;
 let busy = false;
+let lastCall = 0;
+// Failures in the last RESTART_WINDOW_MS; past RESTART_MAX the runner stops restarting and shows the error.
+let failures: number[] = [];
+const RESTART_WINDOW_MS = 60_000;
+const RESTART_MAX = 3;
+// Idle heartbeat: ask the workers to answer when no call has been made for this long [ms].
+const HEARTBEAT_MS = 2000;
 let sentSetup: Setup | null = null;
 let sentEpoch = -1;
 let view: ViewWindow | null = null;
@@ -27,10 +38,44 @@ let redraw = false;
 
 /** Start the worker and the frame loop (once, at page load). */
 export function startRunner(): void {
-  const worker = new Worker(new URL('../workers/trackWorker.ts', import.meta.url), { type: 'module' });
-  worker.addEventListener('error', (e) => fail(`the tracking worker failed to start (${e.message || 'no details'})`));
-  api = Comlink.wrap<TrackApi>(worker);
+  api = newPool();
+  // Test hook, only with ?debug in the address: make a worker fail, read how many workers track.
+  const q = new URLSearchParams(location.search);
+  if (q.has('debug')) (window as unknown as { __phasewellDebug: unknown }).__phasewellDebug = {
+    failWorker: (how: 'throw' | 'close' | 'hang', k = 0) => api?.debugFail(how, k),
+    workers: () => api?.workers ?? 0,
+  };
   requestAnimationFrame(tick);
+}
+
+// ?workers=1 pins one worker (to compare with the split); otherwise up to two, as the cores allow.
+function newPool(): TrackPool {
+  const q = new URLSearchParams(location.search);
+  const max = Math.min(2, Number(q.get('workers')) || navigator.hardwareConcurrency || 1);
+  const g = ++gen;
+  return new TrackPool(() => new Worker(new URL('../workers/trackWorker.ts', import.meta.url), { type: 'module' }), max, (why) => {
+    if (g === gen) restart(why);
+  });
+}
+
+// Replace a failed pool and regenerate the same setup from turn 0, saying so in the notice bar.
+function restart(why: string): void {
+  const now = performance.now();
+  failures = failures.filter((t) => now - t < RESTART_WINDOW_MS).concat(now);
+  api?.terminate();
+  busy = false;
+  if (failures.length > RESTART_MAX) {
+    api = null;
+    gen++;
+    fail(`${why}; it failed ${failures.length} times within a minute and was not restarted again (reload the page to retry)`);
+    return;
+  }
+  api = newPool();
+  sentSetup = null; // forces a fresh beam from the unchanged valid setup
+  useApp.setState({
+    running: false, status: 'starting', statusMessage: 'restarting the tracker…',
+    notice: { kind: 'error', title: 'The tracker stopped and was restarted. The setup is unchanged; the beam starts again from turn 0.', lines: [why] },
+  });
 }
 
 // The last run point handed out, so equal points are the same object (stable store selectors).
@@ -68,6 +113,11 @@ export async function fetchParticles(): Promise<{ dt: Float64Array; dE: Float64A
   return api && !busy ? api.particles() : null;
 }
 
+/** Number of workers tracking the current beam (1, or 2 when it is split). */
+export function workerCount(): number {
+  return api?.workers ?? 0;
+}
+
 // Core errors name the field first ("beam.distribution.size.value = 5 eV·s: ..."): show them next to it too.
 const FIELD_FIRST = /^([A-Za-z]\w*(?:\.\w+|\[\d+\])*) = /;
 
@@ -89,6 +139,7 @@ function tick(): void {
   requestAnimationFrame(tick);
   if (busy || !api) return;
   const s = useApp.getState();
+  const pool = api, g = gen;
   const turn = s.frame?.turn ?? 0;
   if (s.beamEpoch !== sentEpoch || needsNewBeam(sentSetup, s.valid, turn)) {
     const setup = s.valid;
@@ -100,7 +151,8 @@ function tick(): void {
     const setup = s.valid;
     sentSetup = setup;
     busy = true;
-    api.updateSetup(setup).then(() => (busy = false), (e) => { busy = false; fail(String((e as Error).message ?? e)); });
+    lastCall = performance.now();
+    pool.updateSetup(setup).then(() => { if (g === gen) busy = false; }, (e) => { if (g !== gen) return; busy = false; fail(String((e as Error).message ?? e)); });
   } else if (redraw && !s.running && s.frame) {
     redraw = false;
     call(() => api!.run({ turns: 0, budgetMs: BUDGET_MS, view: view!, pointsMax: POINTS_MAX }), false, 'binning');
@@ -109,17 +161,26 @@ function tick(): void {
     if (drawsDue()) return;
     if (turn >= goal) useApp.setState({ running: false, status: 'done', statusMessage: `stopped at turn ${turn}` });
     else {
-      const req = { turns: Math.min(s.turnsPerFrame, goal - turn), budgetMs: BUDGET_MS, view: view!, pointsMax: POINTS_MAX };
+      const turns = Math.min(s.turnsPerFrame, goal - turn);
+      // The call that can reach the goal computes the final diagnostics even off a logging turn.
+      const req = { turns, budgetMs: BUDGET_MS, view: view!, pointsMax: POINTS_MAX, fresh: turn + turns >= goal };
       call(() => api!.run(req), false, 'tracking');
     }
+  } else if (performance.now() - lastCall > HEARTBEAT_MS) {
+    lastCall = performance.now();
+    busy = true;
+    pool.ping().then(() => { if (g === gen) busy = false; }, () => { if (g === gen) busy = false; });
   }
 }
 
 function call(fn: () => Promise<RunFrame>, fresh: boolean, what: string): void {
   busy = true;
+  lastCall = performance.now();
+  const g = gen;
   if (fresh) useApp.setState({ statusMessage: what });
   fn().then(
     (f) => {
+      if (g !== gen) return; // from a replaced pool
       busy = false;
       const t = performance.now();
       accept(f, fresh);
@@ -127,6 +188,7 @@ function call(fn: () => Promise<RunFrame>, fresh: boolean, what: string): void {
       queueMicrotask(() => performance.measure('accept frame', { start: t }));
     },
     (e) => {
+      if (g !== gen) return;
       busy = false;
       fail(String((e as Error)?.message ?? e));
     },
@@ -145,6 +207,8 @@ function accept(f: RunFrame, fresh: boolean): void {
     status: running ? 'running' : 'ready',
     statusMessage: running ? `tracking: ${f.turnsDone} turns in ${f.trackMs.toFixed(0)} ms` : fresh || f.turn === 0 ? 'ready' : `paused at turn ${f.turn}`,
   });
+  // Paused between logging turns: the diagnostics shown are older than the picture; a 0-turn call refreshes them.
+  if (!running && !fresh && f.current.turn !== f.turn) redraw = true;
   const want = chooseWindow(bucketAt(s.valid, shownPoint({ frame: f })), f.current);
   if (view && needsRefit(view, want)) {
     view = want;

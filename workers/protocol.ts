@@ -1,6 +1,6 @@
 // Messages between the page and the tracking worker. Units as in core: dt in s, dE in eV, time in s.
 import type { Setup } from '../core/setup/schema.ts';
-import type { TurnDiagnostics } from '../core/diagnostics/index.ts';
+import type { PartialMoments, PartialShape, TurnDiagnostics } from '../core/diagnostics/index.ts';
 import type { MatchedInfo } from '../core/beam/index.ts';
 import type { MachineEvent } from '../core/program/index.ts';
 
@@ -35,6 +35,8 @@ export interface RunRequest {
   view: ViewWindow;
   /** Return the particle coordinates when at most this many are alive. */
   pointsMax: number;
+  /** Compute the current diagnostics even off the logging turns (the last call of a run); else the last row may stand in. */
+  fresh?: boolean;
 }
 
 /** What the page receives after each call; the typed arrays are transferred, not copied. */
@@ -82,4 +84,42 @@ export interface TrackApi {
   reset(view: ViewWindow, pointsMax: number): Promise<RunFrame>;
   /** Copy of all particles (alive first) for export. */
   particles(): Promise<{ dt: Float64Array; dE: Float64Array; alive: number }>;
+  /** Split mode: generate the whole beam of a setup, keep part `index` of `count` contiguous parts. */
+  initPart(setup: Setup, part: Part, view: ViewWindow): Promise<PartFrame>;
+  /** Split mode: track exactly `turns` turns; with a view, also bin the picture. */
+  advance(turns: number, view: ViewWindow | null): Promise<PartFrame>;
+  /** Split mode, pass 1 of the diagnostics of this part; with a view, also its line density. */
+  moments(view: ViewWindow | null): Promise<{ moments: PartialMoments; profile: Float64Array | null; bucket: boolean }>;
+  /** Split mode, pass 2 with the merged moments of all parts. */
+  shape(all: PartialMoments, bins: number): Promise<PartialShape>;
+  /** Take over a whole beam at a given turn (leaving split mode), with the setup to track it with. */
+  adopt(setup: Setup, dt: Float64Array, dE: Float64Array, alive: number, at: { turn: number; time: number; pc: number }): Promise<void>;
+  /** Answer at once (the page's heartbeat while idle). */
+  ping(): Promise<number>;
+  /** Test hook: make this worker fail ('throw' an uncaught error, 'close' itself, or 'hang' in a busy loop). */
+  debugFail(how: 'throw' | 'close' | 'hang'): Promise<void>;
+}
+
+/** Which contiguous slice of the generated beam a worker keeps: [floor(N·index/count), floor(N·(index+1)/count)). */
+export interface Part {
+  index: number;
+  count: number;
+}
+
+/** What a split-mode worker returns after tracking; hist and profile only when a view was given. */
+export interface PartFrame {
+  turn: number;
+  time: number;
+  Es: number;
+  pc: number;
+  alive: number;
+  total: number;
+  /** histogram2d counts of this part (null without a view). */
+  hist: Float32Array | null;
+  /** Line density of this part, normalised to its own alive count (null without a view). */
+  profile: Float64Array | null;
+  matched?: MatchedInfo | null;
+  events?: MachineEvent[];
+  trackMs: number;
+  turnsDone: number;
 }

@@ -1,16 +1,20 @@
 // Tracking worker: a thin comlink shell over the core tracker. Each call tracks for at most a time budget so
 // the page can ask for a new frame every animation frame; histograms are binned here and transferred.
+// Split mode (workers/pool.ts): the worker keeps one part of the beam and answers the pool's reduction calls.
 import * as Comlink from 'comlink';
 import { generateBeam } from '../core/beam/index.ts';
 import { computeBucket } from '../core/bucket.ts';
-import { computeDiagnostics, histogram2d, lineDensity } from '../core/diagnostics/index.ts';
+import { bunchFrom } from '../core/bunch.ts';
+import { computeDiagnostics, histogram2d, lineDensity, partialMoments, partialShape } from '../core/diagnostics/index.ts';
 import { machineAtStart, type MachineState } from '../core/machine.ts';
 import type { Setup } from '../core/setup/schema.ts';
 import { Tracker } from '../core/tracker.ts';
-import { MAX_EVENTS, type DiagRow, type ProfileRow, type RunFrame, type RunRequest, type TrackApi, type ViewWindow } from './protocol.ts';
+import { MAX_EVENTS, type DiagRow, type PartFrame, type ProfileRow, type RunFrame, type RunRequest, type TrackApi, type ViewWindow } from './protocol.ts';
 
 let setup: Setup | null = null;
 let tracker: Tracker | null = null;
+// The last diagnostics computed: stands in for the current state between logging turns (each costs ~tens of ms at 1e6).
+let lastDiag: DiagRow | null = null;
 
 function need(): { s: Setup; t: Tracker } {
   if (!setup || !tracker) throw new Error('the tracker has no beam yet: call init(setup) first');
@@ -20,31 +24,36 @@ function need(): { s: Setup; t: Tracker } {
 function diagnose(t: Tracker, s: Setup): DiagRow {
   const m: MachineState = t.machine;
   const b = computeBucket(m);
-  return computeDiagnostics(t.bunch, m, b.ok ? b.bucket : null, s.run.profileBins);
+  return (lastDiag = computeDiagnostics(t.bunch, m, b.ok ? b.bucket : null, s.run.profileBins));
 }
 
-function profileOf(t: Tracker, s: Setup, v: ViewWindow): Float64Array {
-  const out = new Float64Array(s.run.profileBins);
+function profileOf(t: Tracker, bins: number, v: ViewWindow): Float64Array {
+  const out = new Float64Array(bins);
   lineDensity(t.bunch, v.dtMin, v.dtMax, out);
   return out;
 }
 
 function profileRow(t: Tracker, s: Setup, v: ViewWindow): ProfileRow {
-  return { turn: t.turn, dtMin: v.dtMin, dtMax: v.dtMax, profile: profileOf(t, s, v) };
+  return { turn: t.turn, dtMin: v.dtMin, dtMax: v.dtMax, profile: profileOf(t, s.run.profileBins, v) };
+}
+
+function histOf(t: Tracker, v: ViewWindow): Float32Array {
+  const hist = new Float32Array(v.nx * v.ny);
+  histogram2d(t.bunch, v.dtMin, v.dtMax, v.dEMin, v.dEMax, v.nx, v.ny, hist);
+  return hist;
 }
 
 // Package the current state; every typed array goes into the transfer list.
-function frameOf(rows: DiagRow[], profiles: RunFrame['profiles'], v: ViewWindow, pointsMax: number, trackMs: number, turnsDone: number): RunFrame {
+function frameOf(rows: DiagRow[], profiles: RunFrame['profiles'], v: ViewWindow, pointsMax: number, trackMs: number, turnsDone: number, fresh: boolean): RunFrame {
   const { s, t } = need();
   const b = t.bunch;
-  const hist = new Float32Array(v.nx * v.ny);
-  histogram2d(b, v.dtMin, v.dtMax, v.dEMin, v.dEMax, v.nx, v.ny, hist);
-  const profile = profileOf(t, s, v);
+  const hist = histOf(t, v);
+  const profile = profileOf(t, s.run.profileBins, v);
   const points = b.n <= pointsMax ? { dt: b.dt.slice(0, b.n), dE: b.dE.slice(0, b.n) } : null;
   const m = t.machine;
   // The last logged row is the current state when it was taken this turn: diagnostics cost more than a turn.
   const last = rows[rows.length - 1];
-  const current = last && last.turn === t.turn ? last : diagnose(t, s);
+  const current = last && last.turn === t.turn ? last : fresh || !lastDiag ? diagnose(t, s) : lastDiag;
   const frame: RunFrame = {
     turn: t.turn, time: m.time, Es: m.Es, pc: m.pc, current, rows, profiles, view: v, hist, profile, points, trackMs, turnsDone,
     events: m.events.slice(-MAX_EVENTS),
@@ -59,9 +68,22 @@ function start(s: Setup, v: ViewWindow, pointsMax: number): RunFrame {
   setup = s;
   tracker = new Tracker(s, bunch);
   const first = diagnose(tracker, s);
-  const f = frameOf([first], [profileRow(tracker, s, v)], v, pointsMax, 0, 0);
+  const f = frameOf([first], [profileRow(tracker, s, v)], v, pointsMax, 0, 0, true);
   f.matched = matched;
   return f;
+}
+
+// A split-mode frame: the machine state, and this part's picture when a view is given.
+function partFrame(v: ViewWindow | null, trackMs: number, turnsDone: number): PartFrame {
+  const { s, t } = need();
+  const m = t.machine;
+  const hist = v ? histOf(t, v) : null;
+  const profile = v ? profileOf(t, s.run.profileBins, v) : null;
+  const f: PartFrame = {
+    turn: t.turn, time: m.time, Es: m.Es, pc: m.pc, alive: t.bunch.n, total: t.bunch.total, hist, profile, trackMs, turnsDone,
+    events: m.events.slice(-MAX_EVENTS),
+  };
+  return Comlink.transfer(f, hist && profile ? [hist.buffer as ArrayBuffer, profile.buffer as ArrayBuffer] : []);
 }
 
 const api: TrackApi = {
@@ -84,7 +106,7 @@ const api: TrackApi = {
       }
       if (performance.now() - t0 > req.budgetMs) break;
     }
-    return frameOf(rows, profiles, req.view, req.pointsMax, performance.now() - t0, done);
+    return frameOf(rows, profiles, req.view, req.pointsMax, performance.now() - t0, done, req.fresh === true || req.turns === 0);
   },
   async updateSetup(s) {
     need().t.updateSetup(s);
@@ -98,6 +120,52 @@ const api: TrackApi = {
     const dt = b.dt.slice(0, b.total);
     const dE = b.dE.slice(0, b.total);
     return Comlink.transfer({ dt, dE, alive: b.n }, [dt.buffer, dE.buffer]);
+  },
+  async initPart(s, part, v) {
+    const { bunch, matched } = generateBeam(s, machineAtStart(s));
+    const N = bunch.total, lo = Math.floor((N * part.index) / part.count), hi = Math.floor((N * (part.index + 1)) / part.count);
+    // Generation leaves every particle alive, so a slice of [0, N) is a slice of the alive block.
+    setup = s;
+    tracker = new Tracker(s, bunchFrom(bunch.dt.slice(lo, hi), bunch.dE.slice(lo, hi)));
+    lastDiag = null;
+    const f = partFrame(v, 0, 0);
+    f.matched = matched;
+    return f;
+  },
+  async advance(turns, v) {
+    const { t } = need();
+    const t0 = performance.now();
+    t.track(turns);
+    return partFrame(v, performance.now() - t0, turns);
+  },
+  async moments(v) {
+    const { s, t } = need();
+    const b = computeBucket(t.machine);
+    const moments = partialMoments(t.bunch, t.machine, b.ok ? b.bucket : null);
+    const profile = v ? profileOf(t, s.run.profileBins, v) : null;
+    return Comlink.transfer({ moments, profile, bucket: b.ok }, profile ? [profile.buffer as ArrayBuffer] : []);
+  },
+  async shape(all, bins) {
+    const sh = partialShape(need().t.bunch, all, bins);
+    return Comlink.transfer(sh, [sh.action.buffer as ArrayBuffer, sh.profile.buffer as ArrayBuffer]);
+  },
+  async adopt(s, dt, dE, alive, at) {
+    const t = new Tracker(s, bunchFrom(dt, dE, alive));
+    // Resume the machine where the parts were: updateSetup continues from the state's turn, time and momentum.
+    const m = t.machine;
+    m.turn = at.turn; m.time = at.time; m.pc = at.pc;
+    t.updateSetup(s);
+    setup = s;
+    tracker = t;
+    lastDiag = null;
+  },
+  async ping() {
+    return tracker?.turn ?? -1;
+  },
+  async debugFail(how) {
+    if (how === 'close') self.close();
+    else if (how === 'throw') setTimeout(() => { throw new Error('debug: tracking worker made to fail'); });
+    else { const end = Date.now() + 60_000; while (Date.now() < end); }
   },
 };
 

@@ -1,4 +1,4 @@
-// Phase-space view: the beam as a density image (or as points when few) in (dt [ns], dE [MeV or keV]), with
+// Phase-space view: the beam as a density image (or as SVG points when few) in (dt [ns], dE [MeV or keV]), with
 // the separatrix and fixed points of the bucket at the shown energy drawn over it. Three Plotly figures are
 // stacked with the same margins and ranges: axes (bottom; redrawn only when the window changes), beam (every
 // frame) and bucket (when the bucket changes). The two upper layers have no axes to draw, so each redraw
@@ -22,8 +22,8 @@ const SEP_COLOUR = '#c0561b';
 const STATIC = { displayModeBar: false, responsive: true, staticPlot: true } as const;
 // The bucket layer follows a ramp at most this often [ms].
 const BUCKET_GAP_MS = 500;
-// The beam layer at most this often [ms]: ~12 pictures a second read as motion and leave the page idle time.
-const BEAM_GAP_MS = 80;
+// The beam layer at most this often [ms]: up to 25 pictures a second (the density must update ≥ 20 times a second).
+const BEAM_GAP_MS = 40;
 
 function heatmapZ(h: Float32Array, nx: number, ny: number): (number | null)[][] {
   const z: (number | null)[][] = new Array(ny);
@@ -111,7 +111,8 @@ export function PhaseSpace() {
         const p = frame.points;
         const x = new Float32Array(p.dt.length), y = new Float32Array(p.dt.length);
         for (let i = 0; i < x.length; i++) { x[i] = p.dt[i] * 1e9; y[i] = p.dE[i] * k; }
-        data.push({ type: 'scattergl', mode: 'markers', x, y, marker: { size: 2, color: '#1f3b5c', opacity: 0.6 }, name: 'particles' } as Data);
+        // SVG points (runner.POINTS_MAX keeps them few): no WebGL, and the bundle needs no scattergl.
+        data.push({ type: 'scatter', mode: 'markers', x, y, marker: { size: 2, color: '#1f3b5c', opacity: 0.6 }, hoverinfo: 'skip', name: 'particles' } as Data);
       } else {
         const v = frame.view;
         const dx = (v.dtMax - v.dtMin) / v.nx, dy = (v.dEMax - v.dEMin) / v.ny;

@@ -103,7 +103,7 @@ const tests = [
       const a = await openApp(ctx, url);
       await a.fill('#f-rf-systems-0-voltage', '24');
       await a.fill('#f-beam-seed', '42');
-      await a.fill('#f-beam-particles', '20000');
+      await a.fill('#f-beam-particles', '5000');
       await waitReady(a);
       await stepTo(a, 150, 150);
       const rmsA = await summary(a, 'rms-length');
@@ -111,7 +111,7 @@ const tests = [
       const link = await a.inputValue('#share-link');
       ok(link.includes('#s1='), `link: ${link.slice(0, 80)}`);
       const pts = (await traces(a, 'phase-beam')).find((t) => t.name === 'particles');
-      ok(pts && pts.n === 20000, `20000 particles should be drawn as points, got ${pts?.n}`);
+      ok(pts && pts.n === 5000, `5000 particles should be drawn as points, got ${pts?.n}`);
       ok(!(await a.content()).includes('WebGL is not supported'), 'the point view says WebGL is not supported');
       const b = await openApp(ctx, link);
       for (const id of ['#f-rf-systems-0-voltage', '#f-beam-seed', '#f-beam-particles', '#f-energy-ramp-value', '#f-ring-circumference'])

@@ -1,0 +1,229 @@
+// The page's side of the tracking workers: one worker, or two that each track half of the beam when the dynamics
+// are single-particle (no induced voltage, no radiation: those need the whole bunch or one random stream).
+// It offers the one-worker TrackApi to the runner, so splitting is invisible there. Split mode tracks whole
+// chunks of turns in both workers at once (each chunk ends at the next logging turn), then merges:
+// histograms and profiles add (profiles weighted by alive counts), diagnostics come from
+// core/diagnostics/partial.ts (exact moments; 90/95 % areas from the merged action histogram, within 0.1 %).
+// Supervision: every call must answer within a deadline, and a worker's uncaught error counts as a failure;
+// either way `onFailure` is told once, and the runner replaces the pool.
+import * as Comlink from 'comlink';
+import { diagnosticsFromParts, mergeMoments } from '../core/diagnostics/index.ts';
+import type { Setup } from '../core/setup/schema.ts';
+import type { DiagRow, PartFrame, ProfileRow, RunFrame, RunRequest, TrackApi, ViewWindow } from './protocol.ts';
+
+/** Beams at least this large are split over two workers (below, one worker is fast enough and simpler). */
+export const SPLIT_MIN = 200_000;
+/** A call that tracks (bounded by its time budget) must answer within this [ms]. */
+export const CALL_DEADLINE_MS = 5000;
+// Beam generation is longer: allow this much more per particle [ms] (1e6 particles: 25 s in all).
+const GENERATE_MS_PER_PARTICLE = 0.02;
+
+/** True when every particle moves independently of the others (the beam may be split across workers). */
+export function singleParticle(s: Setup): boolean {
+  return !(s.intensity && s.impedances.length > 0) && !s.radiation;
+}
+
+interface Member {
+  worker: Worker;
+  api: Comlink.Remote<TrackApi>;
+}
+
+/** One or two tracking workers behind the one-worker API. */
+export class TrackPool {
+  private members: Member[] = [];
+  private split = false;
+  private setup: Setup | null = null;
+  private failed = false;
+  // Split mode: the last diagnostics, machine state and time per turn per particle-part (for chunk sizes).
+  private last: DiagRow | null = null;
+  private msPerTurn = 1;
+  private at = { turn: 0, time: 0, Es: 0, pc: 0 };
+
+  constructor(private readonly make: () => Worker, private readonly maxWorkers: number, private readonly onFailure: (why: string) => void) {}
+
+  /** Workers in use (1 or 2). */
+  get workers(): number {
+    return this.split ? 2 : 1;
+  }
+
+  /** Stop every worker (after a failure, or before replacing the pool). */
+  terminate(): void {
+    this.failed = true;
+    for (const m of this.members) m.worker.terminate();
+    this.members = [];
+  }
+
+  /** Test hook: make worker k fail in the given way. */
+  debugFail(how: 'throw' | 'close' | 'hang', k = 0): void {
+    void this.members[k]?.api.debugFail(how).catch(() => {});
+  }
+
+  private member(k: number): Member {
+    while (this.members.length <= k) {
+      const worker = this.make();
+      worker.addEventListener('error', (e) => {
+        e.preventDefault();
+        this.fail(`the tracking worker stopped with an error (${e.message || 'no details'})`);
+      });
+      this.members.push({ worker, api: Comlink.wrap<TrackApi>(worker) });
+    }
+    return this.members[k];
+  }
+
+  private fail(why: string): void {
+    if (this.failed) return;
+    this.terminate();
+    this.onFailure(why);
+  }
+
+  // Race a call against its deadline; a late answer means the worker is stuck or gone.
+  private guard<T>(p: Promise<T>, ms: number, what: string): Promise<T> {
+    return new Promise<T>((resolve, reject) => {
+      const timer = setTimeout(() => {
+        this.fail(`the tracking worker did not answer for ${(ms / 1000).toFixed(0)} s (${what})`);
+        reject(new Error(`the tracking worker did not answer (${what}); it is being restarted`));
+      }, ms);
+      p.then((v) => { clearTimeout(timer); resolve(v); }, (e) => { clearTimeout(timer); reject(e); });
+    });
+  }
+
+  private each<T>(f: (api: Comlink.Remote<TrackApi>) => Promise<T>, ms: number, what: string): Promise<T[]> {
+    const n = this.split ? 2 : 1;
+    return Promise.all(Array.from({ length: n }, (_, k) => this.guard(f(this.member(k).api), ms, what)));
+  }
+
+  /** Generate the beam of a setup (split when large and single-particle) and return the frame at turn 0. */
+  async init(s: Setup, v: ViewWindow, pointsMax: number): Promise<RunFrame> {
+    this.setup = s;
+    this.split = this.maxWorkers >= 2 && s.beam.particles >= SPLIT_MIN && singleParticle(s);
+    const ms = CALL_DEADLINE_MS + GENERATE_MS_PER_PARTICLE * s.beam.particles;
+    if (!this.split) return this.guard(this.member(0).api.init(s, v, pointsMax), ms, 'generating the beam');
+    return this.splitInit(s, v, ms);
+  }
+
+  private async splitInit(s: Setup, v: ViewWindow, ms: number): Promise<RunFrame> {
+    const parts = await Promise.all([0, 1].map((k) => this.guard(this.member(k).api.initPart(s, { index: k, count: 2 }, v), ms, 'generating the beam')));
+    this.last = null;
+    const f = await this.splitFrame(parts, v, 0, 0, true, []);
+    f.matched = parts[0].matched ?? null;
+    return f;
+  }
+
+  /** Track up to req.turns turns within about req.budgetMs. */
+  run(req: RunRequest): Promise<RunFrame> {
+    if (!this.split) return this.guard(this.member(0).api.run(req), CALL_DEADLINE_MS, 'tracking');
+    return this.splitRun(req);
+  }
+
+  // Chunks of turns in both workers at once, each ending at or before the next logging turn; diagnostics there.
+  private async splitRun(req: RunRequest): Promise<RunFrame> {
+    const every = this.setup!.run.diagnosticsEvery;
+    const t0 = performance.now();
+    const rows: DiagRow[] = [];
+    const profiles: ProfileRow[] = [];
+    let done = 0;
+    let track = 0;
+    while (done < req.turns) {
+      const turn = this.at.turn;
+      const toLog = every - (turn % every);
+      const fit = Math.max(1, Math.floor((req.budgetMs - (performance.now() - t0)) / this.msPerTurn));
+      const n = Math.min(req.turns - done, toLog, fit);
+      const parts = await this.each((api) => api.advance(n, null), CALL_DEADLINE_MS, 'tracking');
+      const ms = Math.max(...parts.map((p) => p.trackMs));
+      this.msPerTurn = Math.max(1e-3, ms / n);
+      track += ms;
+      done += n;
+      this.note(parts[0]);
+      if (this.at.turn % every === 0) {
+        const { row, profile } = await this.diagnose(req.view);
+        rows.push(row);
+        profiles.push({ turn: row.turn, dtMin: req.view.dtMin, dtMax: req.view.dtMax, profile: profile! });
+      }
+      if (performance.now() - t0 > req.budgetMs) break;
+    }
+    const pics = await this.each((api) => api.advance(0, req.view), CALL_DEADLINE_MS, 'binning');
+    return this.splitFrame(pics, req.view, track, done, req.fresh === true || req.turns === 0, rows, profiles);
+  }
+
+  private note(p: PartFrame): void {
+    this.at = { turn: p.turn, time: p.time, Es: p.Es, pc: p.pc };
+  }
+
+  // Both passes of the split diagnostics (and the merged line density when a view is given).
+  private async diagnose(v: ViewWindow | null): Promise<{ row: DiagRow; profile: Float64Array | null }> {
+    const first = await this.each((api) => api.moments(v), CALL_DEADLINE_MS, 'diagnostics');
+    const all = mergeMoments(first.map((f) => f.moments));
+    const bins = this.setup!.run.profileBins;
+    const shapes = await this.each((api) => api.shape(all, bins), CALL_DEADLINE_MS, 'diagnostics');
+    const hasBucket = first[0].bucket;
+    const row = diagnosticsFromParts({ turn: this.at.turn, time: this.at.time }, all, shapes, hasBucket);
+    let profile: Float64Array | null = null;
+    if (v) profile = weighted(first.map((f) => f.profile!), first.map((f) => f.moments.n));
+    this.last = row;
+    return { row, profile };
+  }
+
+  // One RunFrame from the parts' pictures, with fresh diagnostics when asked (or when none are known yet).
+  private async splitFrame(parts: PartFrame[], v: ViewWindow, trackMs: number, turnsDone: number, fresh: boolean, rows: DiagRow[], profiles: ProfileRow[] = []): Promise<RunFrame> {
+    this.note(parts[0]);
+    const hist = parts[0].hist!;
+    for (let k = 1; k < parts.length; k++) { const h = parts[k].hist!; for (let i = 0; i < hist.length; i++) hist[i] += h[i]; }
+    const profile = weighted(parts.map((p) => p.profile!), parts.map((p) => p.alive));
+    const lastRow = rows[rows.length - 1];
+    let current: DiagRow;
+    if (lastRow && lastRow.turn === this.at.turn) current = lastRow;
+    else if (fresh || !this.last) {
+      const d = await this.diagnose(turnsDone === 0 && rows.length === 0 && this.at.turn === 0 ? v : null);
+      current = d.row;
+      if (this.at.turn === 0 && rows.length === 0) { rows.push(current); profiles.push({ turn: 0, dtMin: v.dtMin, dtMax: v.dtMax, profile: d.profile! }); }
+    } else current = this.last;
+    return {
+      turn: this.at.turn, time: this.at.time, Es: this.at.Es, pc: this.at.pc, current, rows, profiles, view: v, hist, profile,
+      points: null, events: parts[0].events, trackMs, turnsDone,
+    };
+  }
+
+  /** New machine parameters from the next turn on; the beam is kept (gathered into one worker if it must be). */
+  async updateSetup(s: Setup): Promise<void> {
+    if (this.split && !singleParticle(s)) {
+      const { dt, dE, alive } = await this.particles();
+      const at = { turn: this.at.turn, time: this.at.time, pc: this.at.pc };
+      this.members[1].worker.terminate();
+      this.members.length = 1;
+      this.split = false;
+      await this.guard(this.member(0).api.adopt(s, Comlink.transfer(dt, [dt.buffer]), Comlink.transfer(dE, [dE.buffer]), alive, at), CALL_DEADLINE_MS, 'taking over the beam');
+    } else await this.each((api) => api.updateSetup(s), CALL_DEADLINE_MS, 'updating the setup');
+    this.setup = s;
+  }
+
+  /** Check that every worker still answers (an idle page learns of a dead worker within the deadline). */
+  async ping(): Promise<void> {
+    await this.each((api) => api.ping(), CALL_DEADLINE_MS, 'idle check');
+  }
+
+  /** Regenerate the beam from the current setup. */
+  reset(v: ViewWindow, pointsMax: number): Promise<RunFrame> {
+    return this.init(this.setup!, v, pointsMax);
+  }
+
+  /** All particles (alive first: the alive of each part, then the lost), for export. */
+  async particles(): Promise<{ dt: Float64Array; dE: Float64Array; alive: number }> {
+    const ps = await this.each((api) => api.particles(), CALL_DEADLINE_MS, 'exporting the particles');
+    if (ps.length === 1) return ps[0];
+    const total = ps.reduce((a, p) => a + p.dt.length, 0);
+    const dt = new Float64Array(total), dE = new Float64Array(total);
+    let o = 0;
+    for (const p of ps) { dt.set(p.dt.subarray(0, p.alive), o); dE.set(p.dE.subarray(0, p.alive), o); o += p.alive; }
+    for (const p of ps) { dt.set(p.dt.subarray(p.alive), o); dE.set(p.dE.subarray(p.alive), o); o += p.dt.length - p.alive; }
+    return { dt, dE, alive: ps.reduce((a, p) => a + p.alive, 0) };
+  }
+}
+
+// Σ p_k·n_k / Σ n_k: line densities normalised per part, renormalised to the union.
+function weighted(ps: Float64Array[], ns: number[]): Float64Array {
+  const out = new Float64Array(ps[0].length);
+  const N = ns.reduce((a, n) => a + n, 0);
+  if (N === 0) return out;
+  for (let k = 0; k < ps.length; k++) { const p = ps[k], w = ns[k] / N; for (let i = 0; i < out.length; i++) out[i] += p[i] * w; }
+  return out;
+}
