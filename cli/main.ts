@@ -1,8 +1,9 @@
 // Phasewell command line: `bucket <setup.json>` and `track <setup.json> --turns N [--every K] [--out f.csv]
 // [--particles p.csv]`. Bad input: one line naming the field, the value and the allowed range; exit code 2.
 import { readFileSync, writeFileSync } from 'node:fs';
-import { formatIssue, parseSetupText } from '../core/setup/validate.ts';
+import { formatIssue, parseSetup, parseSetupText } from '../core/setup/validate.ts';
 import type { Setup } from '../core/setup/schema.ts';
+import { setupWarnings } from '../core/setup/warnings.ts';
 import { intOption, numOption, parseCommandLine, UsageError } from './args.ts';
 import { bucketReport } from './bucketReport.ts';
 import { cycleCsv, cycleJson } from './cycle.ts';
@@ -16,6 +17,9 @@ Results are for design exploration; machine protection and radiation safety foll
 
 class InputError extends Error {}
 
+// Warnings do not stop the run: one line each on stderr after a successful command (a failure prints one line only).
+const warnings: string[] = [];
+
 function loadSetup(path: string | undefined): Setup {
   if (!path) throw new UsageError('missing <setup.json>');
   let text: string;
@@ -26,15 +30,17 @@ function loadSetup(path: string | undefined): Setup {
   }
   const r = parseSetupText(text);
   if (!r.ok) throw new InputError(`${path}: ${r.errors.map(formatIssue).join('; ')}`);
+  warnings.push(...setupWarnings(r.setup).map((w) => `phasewell: warning: ${formatIssue(w)}\n`));
   return r.setup;
 }
 
 function run(argv: string[]): number {
   const a = parseCommandLine(argv);
-  if (a.options.help || !a.command) {
+  if (a.options.help) {
     process.stdout.write(USAGE + '\n');
-    return a.command || a.options.help ? 0 : 2;
+    return 0;
   }
+  if (!a.command) throw new UsageError('missing command (expected bucket, track or cycle; --help shows the usage)');
   switch (a.command) {
     case 'bucket': {
       const setup = loadSetup(a.positional[0]);
@@ -45,6 +51,9 @@ function run(argv: string[]): number {
       const setup = loadSetup(a.positional[0]);
       const turns = intOption(a.options, 'turns', 1, 100_000_000, setup.run.turns);
       const every = intOption(a.options, 'every', 1, 100_000_000, setup.run.diagnosticsEvery);
+      // --turns may ask for more turns than the setup was checked for (a falling ramp could stop the particle).
+      const again = parseSetup({ ...setup, run: { ...setup.run, turns } });
+      if (!again.ok) throw new UsageError(`--turns = ${turns}: ${again.errors.map(formatIssue).join('; ')}`);
       const { log, tracker } = trackSetup(setup, { turns, every });
       const csv = log.toCsv();
       if (typeof a.options.out === 'string') writeFileSync(a.options.out, csv);
@@ -73,13 +82,15 @@ function run(argv: string[]): number {
 
 try {
   process.exitCode = run(process.argv.slice(2));
+  for (const w of warnings) process.stderr.write(w);
 } catch (e) {
   if (e instanceof UsageError || e instanceof InputError) {
     process.stderr.write(`phasewell: ${e.message}\n`);
     process.exitCode = 2;
   } else {
     // A physics request the setup cannot satisfy (e.g. a bunch larger than the bucket) is also bad input.
-    process.stderr.write(`phasewell: ${(e as Error).message}\n`);
+    const text = e instanceof Error ? e.message : String(e);
+    process.stderr.write(`phasewell: ${text.replace(/\s*\n\s*/g, ' ')}\n`);
     process.exitCode = 2;
   }
 }
