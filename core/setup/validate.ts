@@ -27,7 +27,7 @@ export function parseSetup(input: unknown): ParseResult {
   const m = migrate(input);
   if (!m.ok) return { ok: false, errors: [m.error] };
   const r = setupSchema.safeParse(m.doc);
-  if (!r.success) return { ok: false, errors: r.error.issues.map((i) => toIssue(i, m.doc)) };
+  if (!r.success) return { ok: false, errors: firstIssues(r.error.issues.map((i) => toIssue(i, m.doc))) };
   const extra = crossChecks(r.data);
   if (extra.length) return { ok: false, errors: extra };
   return m.from === undefined ? { ok: true, setup: r.data } : { ok: true, setup: r.data, migratedFrom: m.from };
@@ -42,6 +42,14 @@ export function parseSetupText(text: string): ParseResult {
     return { ok: false, errors: [{ path: '', value: text.slice(0, 40), message: `not valid JSON (${(e as Error).message})` }] };
   }
   return parseSetup(doc);
+}
+
+// A long table full of bad points would list thousands of lines: keep the first ones and say how many more.
+const MAX_ISSUES = 50;
+function firstIssues(all: SetupIssue[]): SetupIssue[] {
+  if (all.length <= MAX_ISSUES) return all;
+  const next = all[MAX_ISSUES];
+  return [...all.slice(0, MAX_ISSUES), { ...next, message: `${next.message} (and ${all.length - MAX_ISSUES - 1} more problems not listed)` }];
 }
 
 // Combinations the schema cannot express field by field.
@@ -65,7 +73,7 @@ function toIssue(i: z.core.$ZodIssue, doc: unknown): SetupIssue {
   const path = i.path.map((k) => (typeof k === 'number' ? `[${k}]` : `.${String(k)}`)).join('').replace(/^\./, '');
   let message = i.message;
   if (i.code === 'unrecognized_keys') message = `unknown field(s): ${i.keys.join(', ')}`;
-  if (i.code === 'invalid_union' || i.code === 'invalid_value') message = i.message.replace(/^Invalid input: /, '');
+  if (i.code === 'invalid_union' || i.code === 'invalid_value' || i.code === 'invalid_type') message = i.message.replace(/^Invalid input: /, '');
   if (message === 'Required' || /received undefined/.test(message)) message = 'is required';
   return { path, value: valueAt(doc, i.path), message };
 }
@@ -82,6 +90,25 @@ function valueAt(doc: unknown, path: readonly PropertyKey[]): unknown {
 function showValue(v: unknown): string {
   if (v === undefined) return '(missing)';
   if (typeof v === 'number') return fmtNum(v);
-  const s = JSON.stringify(v);
-  return s.length > 60 ? s.slice(0, 57) + '...' : s;
+  const s = preview(v, SHOW_CHARS + 1);
+  return s.length > SHOW_CHARS ? s.slice(0, SHOW_CHARS - 3) + '...' : s;
+}
+
+const SHOW_CHARS = 60;
+
+// JSON text of v, cut after about `budget` characters: visits only what is shown, so deeply nested or huge
+// values (a hostile file or link) cost little and cannot overflow the stack.
+function preview(v: unknown, budget: number): string {
+  if (v === null || typeof v !== 'object') return JSON.stringify(v) ?? String(v);
+  const parts: string[] = [];
+  let used = 2;
+  const entries: [string, unknown][] = Array.isArray(v) ? v.map((x) => ['', x]) : Object.entries(v as object);
+  for (const [k, x] of entries) {
+    if (used >= budget) break;
+    const key = Array.isArray(v) ? '' : JSON.stringify(k) + ':';
+    const part = key + preview(x, budget - used - key.length);
+    parts.push(part);
+    used += part.length + 1;
+  }
+  return Array.isArray(v) ? `[${parts.join(',')}]` : `{${parts.join(',')}}`;
 }
