@@ -23,6 +23,7 @@ let api: TrackPool | null = null;
 let gen = 0;
 let busy = false;
 let lastCall = 0;
+const stats = { turns: 0, trackMs: 0, frames: 0 };
 // Failures in the last RESTART_WINDOW_MS; past RESTART_MAX the runner stops restarting and shows the error.
 let failures: number[] = [];
 const RESTART_WINDOW_MS = 60_000;
@@ -44,6 +45,9 @@ export function startRunner(): void {
   if (q.has('debug')) (window as unknown as { __phasewellDebug: unknown }).__phasewellDebug = {
     failWorker: (how: 'throw' | 'close' | 'hang', k = 0) => api?.debugFail(how, k),
     workers: () => api?.workers ?? 0,
+    // Turns and worker milliseconds summed over the frames received (the browser benchmark reads Mpt/s from them).
+    stats: () => ({ ...stats }),
+    resetStats: () => { stats.turns = 0; stats.trackMs = 0; stats.frames = 0; },
   };
   requestAnimationFrame(tick);
 }
@@ -198,6 +202,9 @@ function call(fn: () => Promise<RunFrame>, fresh: boolean, what: string): void {
 // Store a frame: append the logged rows and profiles, and refit the view window if the beam outgrew it.
 function accept(f: RunFrame, fresh: boolean): void {
   const s = useApp.getState();
+  stats.turns += f.turnsDone;
+  stats.trackMs += f.trackMs;
+  stats.frames++;
   const log = fresh ? f.rows : s.log.concat(f.rows);
   let profiles = fresh ? f.profiles : s.profiles.concat(f.profiles);
   if (profiles.length > WATERFALL_ROWS) profiles = profiles.slice(profiles.length - WATERFALL_ROWS);

@@ -64,7 +64,7 @@ export interface RunFrame {
   matched?: MatchedInfo | null;
   /** The machine's events since turn 0 (transition switch, bucket lost or regained), at most the last MAX_EVENTS. */
   events?: MachineEvent[];
-  /** Milliseconds spent tracking in this call. */
+  /** Milliseconds spent tracking in this call (turns only, without diagnostics; split: the slower part). */
   trackMs: number;
   turnsDone: number;
 }

@@ -96,9 +96,11 @@ const api: TrackApi = {
     const rows: DiagRow[] = [];
     const profiles: RunFrame['profiles'] = [];
     const t0 = performance.now();
-    let done = 0;
+    let done = 0, trackMs = 0;
     while (done < req.turns) {
+      const t1 = performance.now();
       t.track(1);
+      trackMs += performance.now() - t1;
       done++;
       if (t.turn % every === 0) {
         rows.push(diagnose(t, s));
@@ -106,7 +108,7 @@ const api: TrackApi = {
       }
       if (performance.now() - t0 > req.budgetMs) break;
     }
-    return frameOf(rows, profiles, req.view, req.pointsMax, performance.now() - t0, done, req.fresh === true || req.turns === 0);
+    return frameOf(rows, profiles, req.view, req.pointsMax, trackMs, done, req.fresh === true || req.turns === 0);
   },
   async updateSetup(s) {
     need().t.updateSetup(s);

@@ -7,6 +7,7 @@ import { serve } from './server.mjs';
 import { ok, runAll } from './harness.mjs';
 import { openApp, stepTo, summary, traces, waitReady } from './page.mjs';
 import { cycleTests } from './cycle.mjs';
+import { faultTests } from './faults.mjs';
 
 const ROOT = new URL('../../', import.meta.url).pathname;
 const ARTIFACTS = ROOT + 'test-artifacts/';
@@ -237,6 +238,7 @@ const tests = [
     },
   },
   ...cycleTests,
+  ...faultTests,
 ];
 
 const server = await serve(ROOT + 'dist');
