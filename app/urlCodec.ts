@@ -12,6 +12,11 @@ export type LinkResult =
   | { kind: 'error'; lines: string[] };
 
 const FRAGMENT = /^#?s(\d+)=([A-Za-z0-9_-]*)$/;
+// Limits against hostile links: a fragment longer than browsers keep in an address bar, or data that expands to
+// more than a setup file could sensibly hold (deflate expands at most ~1032:1, so a short link can be a bomb).
+const MAX_FRAGMENT_CHARS = 4_000_000;
+const MAX_JSON_BYTES = 16_000_000;
+const DEFLATE_MAX_RATIO = 1032;
 
 /** Base64url (no padding) of bytes. */
 export function toBase64Url(bytes: Uint8Array): string {
@@ -37,6 +42,8 @@ export function encodeSetup(doc: unknown): string {
 /** Decode and validate a location hash; says what was wrong instead of throwing. */
 export function decodeFragment(hash: string): LinkResult {
   if (!hash || hash === '#') return { kind: 'none' };
+  if (hash.length > MAX_FRAGMENT_CHARS)
+    return { kind: 'error', lines: [`the link fragment has ${hash.length} characters; at most ${MAX_FRAGMENT_CHARS} are read (load large setups as a file)`] };
   const m = FRAGMENT.exec(hash);
   if (!m) return { kind: 'error', lines: [`the link fragment does not start with "#s${SETUP_VERSION}=" followed by base64url text`] };
   const linkVersion = Number(m[1]);
@@ -44,7 +51,13 @@ export function decodeFragment(hash: string): LinkResult {
     return { kind: 'error', lines: [`the link was written by a newer version (setup version ${linkVersion}; this app reads up to ${SETUP_VERSION})`] };
   let text: string;
   try {
-    text = strFromU8(inflateSync(fromBase64Url(m[2])));
+    const packed = fromBase64Url(m[2]);
+    // Room for the largest possible output below the limit, plus one byte to notice an output past it.
+    const out = new Uint8Array(Math.min(MAX_JSON_BYTES + 1, packed.length * DEFLATE_MAX_RATIO + 1024));
+    const bytes = inflateSync(packed, { out });
+    if (bytes.length > MAX_JSON_BYTES)
+      return { kind: 'error', lines: [`the link data expands to more than ${MAX_JSON_BYTES} bytes; at most that is read (load large setups as a file)`] };
+    text = strFromU8(bytes);
   } catch (e) {
     return { kind: 'error', lines: [`the link data could not be decompressed (${(e as Error).message || 'corrupt data'})`] };
   }
@@ -54,7 +67,12 @@ export function decodeFragment(hash: string): LinkResult {
   } catch (e) {
     return { kind: 'error', lines: [`the link data is not valid JSON (${(e as Error).message})`] };
   }
-  const r = parseSetup(doc);
+  let r: ReturnType<typeof parseSetup>;
+  try {
+    r = parseSetup(doc);
+  } catch (e) {
+    return { kind: 'error', lines: [`the link data could not be checked (${(e as Error).message})`] }; // a fault in validation must not blank the page
+  }
   if (!r.ok) return { kind: 'error', lines: r.errors.map(formatIssue) };
   return r.migratedFrom === undefined ? { kind: 'ok', setup: r.setup } : { kind: 'ok', setup: r.setup, migratedFrom: r.migratedFrom };
 }
