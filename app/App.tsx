@@ -41,9 +41,11 @@ function useSpaceToRun() {
 const TABS = [['beam', 'Beam'], ['cycle', 'Cycle'], ['intensity', 'Intensity']] as const;
 type Tab = (typeof TABS)[number][0];
 
-// The right column's tabs; only the open one is mounted (its plots draw from the store when opened).
+// The right column's tabs. All stay mounted, the closed ones hidden at full size: a plot that loses its div or
+// shrinks to nothing cannot be resized by Plotly, and each redraws only when its data change.
 function RightColumn() {
   const [tab, setTab] = useState<Tab>('beam');
+  const page = (id: Tab) => 'tab-page' + (tab === id ? '' : ' closed');
   return (
     <div className="right-col">
       <div className="tabs" role="tablist" aria-label="Views">
@@ -53,17 +55,19 @@ function RightColumn() {
           </button>
         ))}
       </div>
-      {tab === 'beam' ? (
-        <>
+      <div className="tab-pages">
+        <div className={page('beam')} aria-hidden={tab !== 'beam'}>
           <Summary />
           <Evolution />
           <Waterfall />
-        </>
-      ) : tab === 'cycle' ? (
-        <CycleView />
-      ) : (
-        <IntensityView />
-      )}
+        </div>
+        <div className={page('cycle')} aria-hidden={tab !== 'cycle'}>
+          <CycleView active={tab === 'cycle'} />
+        </div>
+        <div className={page('intensity')} aria-hidden={tab !== 'intensity'}>
+          <IntensityView />
+        </div>
+      </div>
     </div>
   );
 }

@@ -45,11 +45,11 @@ function EventList() {
   );
 }
 
-/** The cycle panel. */
-export function CycleView() {
+/** The cycle panel; the tracker's time is marked only while it is open (`active`). */
+export function CycleView(props: { active: boolean }) {
   const c = useApp((s) => s.cycle);
   const valid = useApp((s) => s.valid);
-  const time = useApp((s) => (s.frame && s.frame.turn > 0 ? s.frame.time : null));
+  const time = useApp((s) => (props.active && s.frame && s.frame.turn > 0 ? s.frame.time : null));
   const plan = c.plan;
   const mass = useMemo(() => makeParticle(valid.particle).mass, [valid.particle]);
   const traces = useMemo(() => {

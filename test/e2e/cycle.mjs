@@ -1,5 +1,6 @@
 // Browser tests of the cycle view, the program editor, the design helpers and the intensity view.
 import { readFileSync } from 'node:fs';
+import { inflateSync, strFromU8 } from 'fflate';
 import { ok } from './harness.mjs';
 import { openApp, stepTo, waitReady } from './page.mjs';
 
@@ -22,6 +23,16 @@ async function cycleTrace(page, plot, name) {
     return { x: Array.from(t.x), y: Array.from(t.y) };
   }, [plot, name]);
 }
+
+// The setup a page's link carries (the fragment is deflated JSON in base64url).
+async function linkedSetup(page) {
+  await page.waitForTimeout(400); // the address bar follows edits after a short delay
+  const hash = new URL(page.url()).hash;
+  const b64 = hash.replace(/^#s1=/, '').replace(/-/g, '+').replace(/_/g, '/');
+  return JSON.parse(strFromU8(inflateSync(Buffer.from(b64, 'base64'))));
+}
+
+const csv = (name, text) => ({ name, mimeType: 'text/csv', buffer: Buffer.from(text) });
 
 export const cycleTests = [
   {
@@ -46,6 +57,92 @@ export const cycleTests = [
       ok(/rf\.switchTime = 0\.00121029 s/.test(events), `the message names the set time: ${events}`);
       await page.waitForTimeout(1200);
       await page.screenshot({ path: ARTIFACTS + 'cycle-view.png' });
+    },
+  },
+  {
+    name: 'program editor: a CSV momentum table is imported; a file with a bad row names the line and keeps the program',
+    async fn({ ctx, url }) {
+      const page = await openApp(ctx, url);
+      await page.setInputFiles('#csv-momentum', csv('ramp.csv', 'time_ms,kinetic_MeV\n# a slow ramp\n2,205\n10,230\n'));
+      await page.waitForSelector('#csv-momentum-done');
+      ok((await page.inputValue('#f-energy-ramp-points-0-0')) === '2' && (await page.inputValue('#f-energy-ramp-points-1-1')) === '230', 'table rows after import');
+      const linked = await linkedSetup(page);
+      ok(JSON.stringify(linked.energy.ramp) === JSON.stringify({ kind: 'table', quantity: 'kinetic', points: [[0.002, 2.05e8], [0.01, 2.3e8]] }), `link: ${JSON.stringify(linked.energy.ramp)}`);
+      await page.click('#tab-cycle');
+      const e = await cycleTrace(page, 'energy', 'kinetic energy');
+      ok(Math.abs(e.y[e.y.length - 1] - 0.23) < 1e-6, `the planned cycle ends at ${e.y[e.y.length - 1]} GeV, the table at 0.23`);
+      // Line 4 holds the bad value (line 2 is a comment, blank lines count).
+      await page.setInputFiles('#csv-momentum', csv('bad.csv', 'time_ms,kinetic_MeV\n# comment\n1,220\n2,abc\n3,300\n'));
+      const err = await (await page.waitForSelector('#csv-momentum-error')).textContent();
+      ok(/line 4: kinetic "abc" is not a number/.test(err), `error: ${err}`);
+      ok((await page.inputValue('#f-energy-ramp-points-1-1')) === '230' && (await page.$$('#tbl-energy-ramp-points tbody tr')).length === 2, 'the previous table must stay');
+      ok(JSON.stringify((await linkedSetup(page)).energy.ramp) === JSON.stringify(linked.energy.ramp), 'the link must keep the previous program');
+      // A bad cell: the message names the field, the value and the range next to the table; the text stays.
+      await page.fill('#f-energy-ramp-points-1-0', '-2');
+      const cell = await (await page.waitForSelector('#tbl-energy-ramp-points-error')).textContent();
+      ok(/energy\.ramp\.points\[1\]\[0\] = -0\.002: must be in \[0, 10000\] s/.test(cell), `cell error: ${cell}`);
+      ok((await page.inputValue('#f-energy-ramp-points-1-0')) === '-2', 'the typed text must stay');
+      await page.screenshot({ path: ARTIFACTS + 'cycle-program-editor.png' });
+    },
+  },
+  {
+    name: 'design helper: a constant-bucket voltage program is proposed, applied, and carried by the link',
+    async fn({ ctx, url }) {
+      const page = await openApp(ctx, url);
+      await page.fill('#f-run-turns', '20000'); // a ten times longer ramp: the bucket grows by 10 % at constant voltage
+      await page.click('#tab-cycle');
+      await page.waitForFunction(() => /21\.\d+ ms/.test(document.getElementById('cycle-state')?.textContent ?? ''), null, { timeout: 20000 });
+      const before = await cycleTrace(page, 'voltage', 'system 1');
+      ok(new Set(before.y).size === 1, 'the demo voltage should start constant');
+      const area0 = await cycleTrace(page, 'area', 'bucket area');
+      ok(Math.max(...area0.y) / Math.min(...area0.y) > 1.05, 'at constant voltage the bucket area should change along the ramp');
+      await page.click('#design-constant');
+      await page.waitForSelector('#design-proposal', { timeout: 30000 });
+      await cycleTrace(page, 'voltage', 'proposed, system 1');
+      await page.screenshot({ path: ARTIFACTS + 'cycle-design-proposal.png' });
+      await page.click('#design-apply');
+      await page.waitForFunction(() => {
+        const t = document.getElementById('plot-cycle-voltage')?.data?.find((d) => d.name === 'system 1');
+        return t && new Set(t.y).size > 10;
+      }, null, { timeout: 20000 });
+      const after = await cycleTrace(page, 'voltage', 'system 1');
+      ok(Math.max(...after.y) / Math.min(...after.y) > 1.02, `the voltage should follow the ramp: ${after.y[0]} → ${after.y[after.y.length - 1]} kV`);
+      // The point of the program: the planner now sees a bucket area constant to within 2 %.
+      const area = await cycleTrace(page, 'area', 'bucket area');
+      const lo = Math.min(...area.y), hi = Math.max(...area.y);
+      ok(hi / lo < 1.02, `bucket area ${lo} … ${hi} eV·s`);
+      const linked = await linkedSetup(page);
+      const prog = linked.rf.systems[0].program?.voltage;
+      ok(Array.isArray(prog) && prog.length > 5, `link voltage program: ${JSON.stringify(prog)?.slice(0, 80)}`);
+      ok(await page.isVisible('#tbl-rf-systems-0-program-voltage'), 'the editor shows the voltage table');
+      await page.screenshot({ path: ARTIFACTS + 'cycle-design-applied.png' });
+    },
+  },
+  {
+    name: 'intensity: induced voltage, impedance loss and radiation numbers of the example rings',
+    async fn({ ctx, url }) {
+      const page = await openPreset(ctx, url, 'fir-intense-protons');
+      await page.click('#tab-intensity');
+      await page.waitForFunction(() => document.getElementById('plot-int-voltage')?.data?.some((t) => t.name === 'induced'), null, { timeout: 30000 });
+      const ind = await page.evaluate(() => document.getElementById('plot-int-voltage').data.find((t) => t.name === 'induced').y);
+      const peak = Math.max(...ind.map(Math.abs));
+      ok(peak > 0.1, `peak induced voltage ${peak} kV`);
+      const k = Number(await page.getAttribute('#int-loss-factor', 'data-value'));
+      const u = Number(await page.getAttribute('#int-loss-particle', 'data-value'));
+      ok(k > 0 && u > 0, `a resistive impedance takes energy: k = ${k} V/C, ${u} eV per particle per turn`);
+      const sep = await page.evaluate(() => document.getElementById('plot-int-separatrix').data.map((t) => t.name));
+      ok(sep.includes('with the beam') && sep.includes('RF alone'), `separatrix traces: ${sep}`);
+      await page.waitForTimeout(600);
+      await page.screenshot({ path: ARTIFACTS + 'intensity-view.png' });
+      // Lepton ring: U0 = 88.46 keV·E[GeV]⁴/ρ[m] (Sands, SLAC-121, electrons and positrons) = 843 keV at 3 GeV, ρ = 8.5 m.
+      await page.selectOption('#preset', 'elm-lepton-ring');
+      await waitReady(page);
+      await page.click('#tab-beam');
+      await page.waitForSelector('#sum-loss-turn', { timeout: 30000 });
+      const u0 = Number(await page.getAttribute('#sum-u0', 'data-value'));
+      ok(Math.abs(u0 / ((88.46e3 * 81) / 8.5) - 1) < 2e-3, `U0 = ${u0} eV`);
+      ok(Number(await page.getAttribute('#sum-tau-e', 'data-value')) > 0, 'damping time');
+      await page.screenshot({ path: ARTIFACTS + 'intensity-summary.png' });
     },
   },
 ];
