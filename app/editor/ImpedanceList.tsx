@@ -13,6 +13,7 @@ const NEW: Record<string, object> = {
   inductive: { kind: 'inductive', imZOverN: 1 },
   spaceCharge: { kind: 'spaceCharge', beamRadius: 0.01, pipeRadius: 0.05, geometry: 'onAxis' },
 };
+const ADD_LABEL: Record<string, string> = { resonator: 'resonator', inductive: 'inductive Im Z/n', spaceCharge: 'space charge' };
 const TITLE: Record<string, string> = { resonator: 'Resonator', inductive: 'Inductive Im Z/n', spaceCharge: 'Space charge', table: 'Impedance table' };
 
 function list(): unknown[] {
@@ -94,7 +95,7 @@ export function ImpedanceList() {
       <div className="table-tools">
         {Object.keys(NEW).map((k) => (
           <button key={k} type="button" className="small" id={'add-impedance-' + k} disabled={n >= MAX_IMPEDANCES} onClick={() => editField(['impedances'], [...list(), NEW[k]])}>
-            + {TITLE[k].toLowerCase()}
+            + {ADD_LABEL[k]}
           </button>
         ))}
       </div>

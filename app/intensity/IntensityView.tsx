@@ -72,7 +72,7 @@ export function IntensityView() {
         <div className="int-body">
           <Numbers r={r} />
           <SmallPlot id="voltage" title="RF and induced voltage over the bunch" data={t.voltages} yTitle="voltage [kV]" y2="λ [1/ns]" />
-          <SmallPlot id="well" title="potential well (per turn, 0 at the bottom)" data={t.well} yTitle="U" />
+          <SmallPlot id="well" title="potential well (per turn, 0 at the bottom; the beam's field inside its window and behind it)" data={t.well} yTitle="U" />
           <SmallPlot id="separatrix" title="separatrix with the beam's own field" data={t.sep} yTitle="dE [MeV]" />
         </div>
       ) : (

@@ -51,7 +51,11 @@ export function intensityReport(setup: Setup): { report: IntensityReport | null;
     const l = dtOfPhase(m, br.bucket.phiLeft), r = dtOfPhase(m, br.bucket.phiRight), w = (r - l) * WELL_MARGIN;
     a = Math.min(a, l - w); b = Math.max(b, r + w);
   }
-  const withBeam = distortedWell(m, calc, a, b, WELL_POINTS);
+  // Ahead of the binning window the resonators' continuation is not trusted (it grew to ~1e9 V in the fir
+  // example): the beam's field counts inside the window and behind it (the wake), nothing ahead of it.
+  const ahead = calc.grid.e0;
+  const field = { grid: calc.grid, voltageAt: (t: number) => (t < ahead ? 0 : calc.voltageAt(t)) } as unknown as typeof calc;
+  const withBeam = distortedWell(m, field, a, b, WELL_POINTS);
   const rfOnly = distortedWell(m, null, a, b, WELL_POINTS);
   const loss = impedanceLoss(calc, model.bunchCharge, model.particlesPerBunch);
   let peak = 0;

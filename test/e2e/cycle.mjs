@@ -130,6 +130,9 @@ export const cycleTests = [
       const k = Number(await page.getAttribute('#int-loss-factor', 'data-value'));
       const u = Number(await page.getAttribute('#int-loss-particle', 'data-value'));
       ok(k > 0 && u > 0, `a resistive impedance takes energy: k = ${k} V/C, ${u} eV per particle per turn`);
+      // The well with the beam stays close to the RF one (a 4e12 bunch changes the bucket by some per cent, not by orders).
+      const well = await page.evaluate(() => Object.fromEntries(document.getElementById('plot-int-well').data.map((t) => [t.name, Math.max(...t.y)])));
+      ok(well['with the beam'] > 0.5 * well['RF alone'] && well['with the beam'] < 2 * well['RF alone'], `well depths: ${JSON.stringify(well)}`);
       const sep = await page.evaluate(() => document.getElementById('plot-int-separatrix').data.map((t) => t.name));
       ok(sep.includes('with the beam') && sep.includes('RF alone'), `separatrix traces: ${sep}`);
       await page.waitForTimeout(600);
