@@ -56,8 +56,9 @@ const rf = z
   })
   .strict()
   .refine((r) => (r.slope === 'timed') === (r.switchTime !== undefined), { error: "give rf.switchTime exactly when rf.slope is 'timed'", path: ['switchTime'] })
-  .refine((r) => r.systems[0].program?.phase === undefined, { error: 'the main system defines the phase: it takes no phase program', path: ['systems', 0, 'program', 'phase'] })
-  .refine((r) => r.systems[0].phase === 0, { error: 'the first (main) system defines the phase: its phase must be 0', path: ['systems', 0, 'phase'] })
+  // systems[0]?: these checks also run when the list is empty (its own length check reports that).
+  .refine((r) => r.systems[0]?.program?.phase === undefined, { error: 'the main system defines the phase: it takes no phase program', path: ['systems', 0, 'program', 'phase'] })
+  .refine((r) => (r.systems[0]?.phase ?? 0) === 0, { error: 'the first (main) system defines the phase: its phase must be 0', path: ['systems', 0, 'phase'] })
   .refine((r) => r.systems.every((s) => s.harmonic >= r.systems[0].harmonic), {
     error: 'the first system must have the lowest harmonic number (it defines the bucket spacing)',
     path: ['systems'],

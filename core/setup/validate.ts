@@ -19,7 +19,7 @@ export type ParseResult = { ok: true; setup: Setup; migratedFrom?: number } | { 
 
 /** One line per issue: `path = value: message`. */
 export function formatIssue(i: SetupIssue): string {
-  return `${i.path || '(setup)'} = ${showValue(i.value)}: ${i.message}`;
+  return `${i.path || '(setup)'} = ${showValue(i.value)}: ${i.message.replace(/\s*\n\s*/g, ' ')}`; // one line, whatever the message
 }
 
 /** Validate an already-parsed JSON value (migrating older versions first). */
@@ -72,7 +72,8 @@ function crossChecks(s: Setup): SetupIssue[] {
 function toIssue(i: z.core.$ZodIssue, doc: unknown): SetupIssue {
   const path = i.path.map((k) => (typeof k === 'number' ? `[${k}]` : `.${String(k)}`)).join('').replace(/^\./, '');
   let message = i.message;
-  if (i.code === 'unrecognized_keys') message = `unknown field(s): ${i.keys.join(', ')}`;
+  if (i.code === 'unrecognized_keys')
+    message = `unknown field(s): ${i.keys.slice(0, 10).join(', ')}${i.keys.length > 10 ? ` and ${i.keys.length - 10} more` : ''}`;
   if (i.code === 'invalid_union' || i.code === 'invalid_value' || i.code === 'invalid_type') message = i.message.replace(/^Invalid input: /, '');
   if (message === 'Required' || /received undefined/.test(message)) message = 'is required';
   return { path, value: valueAt(doc, i.path), message };
