@@ -13,8 +13,8 @@ import { drawsDue } from './views/schedule.ts';
 
 /** Particle coordinates come back as points (not only a histogram) up to this count: SVG points stay a short draw. */
 export const POINTS_MAX = 5_000;
-/** Worker time budget per call [ms]: short enough for a fresh picture every frame or two. */
-const BUDGET_MS = 40;
+/** Worker time budget per call [ms]: with the binning, a frame every ~35 ms (≥ 20 density pictures a second). */
+const BUDGET_MS = 25;
 /** Profiles kept for the waterfall. */
 const WATERFALL_ROWS = 300;
 
@@ -23,6 +23,8 @@ let api: TrackPool | null = null;
 let gen = 0;
 let busy = false;
 let lastCall = 0;
+// No core to spare for the page next to the workers (set per pool).
+let holdForDraws = false;
 const stats = { turns: 0, trackMs: 0, frames: 0 };
 // Failures in the last RESTART_WINDOW_MS; past RESTART_MAX the runner stops restarting and shows the error.
 let failures: number[] = [];
@@ -45,6 +47,7 @@ export function startRunner(): void {
   if (q.has('debug')) (window as unknown as { __phasewellDebug: unknown }).__phasewellDebug = {
     failWorker: (how: 'throw' | 'close' | 'hang', k = 0) => api?.debugFail(how, k),
     workers: () => api?.workers ?? 0,
+    memory: () => api?.memory(),
     // Turns and worker milliseconds summed over the frames received (the browser benchmark reads Mpt/s from them).
     stats: () => ({ ...stats }),
     resetStats: () => { stats.turns = 0; stats.trackMs = 0; stats.frames = 0; },
@@ -141,6 +144,12 @@ function needsNewBeam(prev: Setup | null, next: Setup, turn: number): boolean {
 
 function tick(): void {
   requestAnimationFrame(tick);
+  pump();
+}
+
+// The next worker call, if one is wanted; also called as soon as a frame arrives, so the worker does not wait for
+// an animation frame between calls.
+function pump(): void {
   if (busy || !api) return;
   const s = useApp.getState();
   const pool = api, g = gen;
@@ -161,8 +170,9 @@ function tick(): void {
     redraw = false;
     call(() => api!.run({ turns: 0, budgetMs: BUDGET_MS, view: view!, pointsMax: POINTS_MAX }), false, 'binning');
   } else if (s.running && s.frame) {
-    // Let due redraws go first: the worker then rests while the page draws, instead of competing for a core.
-    if (drawsDue()) return;
+    // With a spare core the worker tracks the next frame while the page draws this one. Without (as many
+    // workers as cores), due redraws go first: the workers rest while the page draws instead of competing.
+    if (holdForDraws && drawsDue()) return;
     if (turn >= goal) useApp.setState({ running: false, status: 'done', statusMessage: `stopped at turn ${turn}` });
     else {
       const turns = Math.min(s.turnsPerFrame, goal - turn);
@@ -188,6 +198,7 @@ function call(fn: () => Promise<RunFrame>, fresh: boolean, what: string): void {
       busy = false;
       const t = performance.now();
       accept(f, fresh);
+      if (!holdForDraws && useApp.getState().running) setTimeout(pump); // no wait for an animation frame
       // User timing of the store update and the React render it schedules (a microtask queued before this one).
       queueMicrotask(() => performance.measure('accept frame', { start: t }));
     },
@@ -205,6 +216,7 @@ function accept(f: RunFrame, fresh: boolean): void {
   stats.turns += f.turnsDone;
   stats.trackMs += f.trackMs;
   stats.frames++;
+  holdForDraws = (api?.workers ?? 1) >= (navigator.hardwareConcurrency || 1);
   const log = fresh ? f.rows : s.log.concat(f.rows);
   let profiles = fresh ? f.profiles : s.profiles.concat(f.profiles);
   if (profiles.length > WATERFALL_ROWS) profiles = profiles.slice(profiles.length - WATERFALL_ROWS);

@@ -104,7 +104,9 @@ export class TrackPool {
   private async splitInit(s: Setup, v: ViewWindow, ms: number): Promise<RunFrame> {
     const parts = await Promise.all([0, 1].map((k) => this.guard(this.member(k).api.initPart(s, { index: k, count: 2 }, v), ms, 'generating the beam')));
     this.last = null;
-    const f = await this.splitFrame(parts, v, 0, 0, true, []);
+    this.note(parts[0]);
+    const d = await this.diagnose(v);
+    const f = await this.splitFrame(parts, v, 0, 0, true, [d.row], [{ turn: 0, dtMin: v.dtMin, dtMax: v.dtMax, profile: d.profile! }]);
     f.matched = parts[0].matched ?? null;
     return f;
   }
@@ -123,12 +125,17 @@ export class TrackPool {
     const profiles: ProfileRow[] = [];
     let done = 0;
     let track = 0;
+    let pics: PartFrame[] | null = null;
     while (done < req.turns) {
       const turn = this.at.turn;
       const toLog = every - (turn % every);
-      const fit = Math.max(1, Math.floor((req.budgetMs - (performance.now() - t0)) / this.msPerTurn));
+      const left = req.budgetMs - (performance.now() - t0);
+      const fit = Math.max(1, Math.floor(left / this.msPerTurn));
       const n = Math.min(req.turns - done, toLog, fit);
-      const parts = await this.each((api) => api.advance(n, null), CALL_DEADLINE_MS, 'tracking');
+      // The chunk expected to be the last one also bins the picture (saves a round trip per frame).
+      const last = done + n >= req.turns || 2 * n * this.msPerTurn >= left;
+      const parts = await this.each((api) => api.advance(n, last ? req.view : null), CALL_DEADLINE_MS, 'tracking');
+      pics = last ? parts : null;
       const ms = Math.max(...parts.map((p) => p.trackMs));
       this.msPerTurn = Math.max(1e-3, ms / n);
       track += ms;
@@ -139,9 +146,9 @@ export class TrackPool {
         rows.push(row);
         profiles.push({ turn: row.turn, dtMin: req.view.dtMin, dtMax: req.view.dtMax, profile: profile! });
       }
-      if (performance.now() - t0 > req.budgetMs) break;
+      if (last || performance.now() - t0 > req.budgetMs) break;
     }
-    const pics = await this.each((api) => api.advance(0, req.view), CALL_DEADLINE_MS, 'binning');
+    if (!pics) pics = await this.each((api) => api.advance(0, req.view), CALL_DEADLINE_MS, 'binning');
     return this.splitFrame(pics, req.view, track, done, req.fresh === true || req.turns === 0, rows, profiles);
   }
 
@@ -172,11 +179,8 @@ export class TrackPool {
     const lastRow = rows[rows.length - 1];
     let current: DiagRow;
     if (lastRow && lastRow.turn === this.at.turn) current = lastRow;
-    else if (fresh || !this.last) {
-      const d = await this.diagnose(turnsDone === 0 && rows.length === 0 && this.at.turn === 0 ? v : null);
-      current = d.row;
-      if (this.at.turn === 0 && rows.length === 0) { rows.push(current); profiles.push({ turn: 0, dtMin: v.dtMin, dtMax: v.dtMax, profile: d.profile! }); }
-    } else current = this.last;
+    else if (fresh || !this.last) current = (await this.diagnose(null)).row;
+    else current = this.last;
     return {
       turn: this.at.turn, time: this.at.time, Es: this.at.Es, pc: this.at.pc, current, rows, profiles, view: v, hist, profile,
       points: null, events: parts[0].events, trackMs, turnsDone,
@@ -194,6 +198,11 @@ export class TrackPool {
       await this.guard(this.member(0).api.adopt(s, Comlink.transfer(dt, [dt.buffer]), Comlink.transfer(dE, [dE.buffer]), alive, at), CALL_DEADLINE_MS, 'taking over the beam');
     } else await this.each((api) => api.updateSetup(s), CALL_DEADLINE_MS, 'updating the setup');
     this.setup = s;
+  }
+
+  /** Memory held by each worker in use. */
+  memory(): Promise<{ bufferBytes: number; heapBytes: number | null }[]> {
+    return this.each((api) => api.memory(), CALL_DEADLINE_MS, 'memory');
   }
 
   /** Check that every worker still answers (an idle page learns of a dead worker within the deadline). */

@@ -94,6 +94,8 @@ export interface TrackApi {
   shape(all: PartialMoments, bins: number): Promise<PartialShape>;
   /** Take over a whole beam at a given turn (leaving split mode), with the setup to track it with. */
   adopt(setup: Setup, dt: Float64Array, dE: Float64Array, alive: number, at: { turn: number; time: number; pc: number }): Promise<void>;
+  /** Memory this worker holds: the particle columns' buffer (the kernel's memory) and the JS heap where the browser tells it. */
+  memory(): Promise<{ bufferBytes: number; heapBytes: number | null }>;
   /** Answer at once (the page's heartbeat while idle). */
   ping(): Promise<number>;
   /** Test hook: make this worker fail ('throw' an uncaught error, 'close' itself, or 'hang' in a busy loop). */

@@ -161,6 +161,10 @@ const api: TrackApi = {
     tracker = t;
     lastDiag = null;
   },
+  async memory() {
+    const heap = (performance as unknown as { memory?: { usedJSHeapSize: number } }).memory;
+    return { bufferBytes: tracker ? tracker.bunch.dt.buffer.byteLength : 0, heapBytes: heap ? heap.usedJSHeapSize : null };
+  },
   async ping() {
     return tracker?.turn ?? -1;
   },

@@ -81,6 +81,8 @@ export function PhaseSpace() {
   const xr: [number, number] = [win.dtMin * 1e9, win.dtMax * 1e9];
   const yr: [number, number] = [win.dEMin * k, win.dEMax * k];
   const key = `${xr}|${yr}`;
+  // The setup the bucket layer was last drawn for: a new one (an edit) is drawn before anything else.
+  const drawnFor = useRef(valid);
 
   // Axes layer: only when the window or the energy unit changes.
   useEffect(() => {
@@ -98,7 +100,9 @@ export function PhaseSpace() {
     data.push({ type: 'scatter', mode: 'markers', x: bv.stableDt.map((t) => t * 1e9), y: bv.stableDt.map(() => 0), marker: { symbol: 'circle-open', size: 8, color: SEP_COLOUR }, name: 'stable fixed point' });
     data.push({ type: 'scatter', mode: 'markers', x: bv.unstableDt.map((t) => t * 1e9), y: bv.unstableDt.map(() => 0), marker: { symbol: 'x-thin-open', size: 9, color: SEP_COLOUR, line: { width: 2, color: SEP_COLOUR } }, name: 'unstable fixed point' });
     setRanges(topLayout.current, xr, yr);
-    scheduleDraw('bucket', () => topRef.current && Plotly.react(topRef.current, data, topLayout.current, STATIC), BUCKET_GAP_MS);
+    const edited = drawnFor.current !== valid;
+    drawnFor.current = valid;
+    scheduleDraw('bucket', () => topRef.current && Plotly.react(topRef.current, data, topLayout.current, STATIC), BUCKET_GAP_MS, edited);
   }, [bv, key]);
 
   // Beam layer: density image or points.

@@ -10,6 +10,7 @@ import { useApp } from '../store.ts';
 interface Job {
   draw: () => void;
   minGapMs: number;
+  urgent: boolean;
 }
 
 const pending = new Map<string, Job>();
@@ -19,7 +20,7 @@ const lastCost = new Map<string, number>();
 const DUTY = 8;
 
 function due(id: string, job: Job, now: number): boolean {
-  if (!useApp.getState().running) return true;
+  if (job.urgent || !useApp.getState().running) return true;
   const gap = Math.max(job.minGapMs, DUTY * (lastCost.get(id) ?? 0));
   return now - (lastDrawn.get(id) ?? -Infinity) >= gap;
 }
@@ -28,17 +29,30 @@ let queued = false;
 // Drawing time allowed per animation frame [ms]; leaves room for React and input under a 50 ms long-task limit.
 const SLICE_MS = 12;
 
-/** Ask for plot `id` to be drawn by `draw` (a newer request replaces an older one). */
-export function scheduleDraw(id: string, draw: () => void, minGapMs = 0): void {
+/**
+ * Ask for plot `id` to be drawn by `draw` (a newer request replaces an older one). An `urgent` plot (the bucket
+ * after an edit) goes before the others and starts in the next task, without waiting for an animation frame.
+ */
+export function scheduleDraw(id: string, draw: () => void, minGapMs = 0, urgent = false): void {
   pending.delete(id); // re-insert at the end: round robin between plots
-  pending.set(id, { draw, minGapMs });
+  if (urgent) {
+    const rest = [...pending];
+    pending.clear();
+    pending.set(id, { draw, minGapMs, urgent });
+    for (const [k, j] of rest) pending.set(k, j);
+    frameStart = performance.now();
+    queued = true;
+    channel.port2.postMessage(null);
+    return;
+  }
+  pending.set(id, { draw, minGapMs, urgent });
   queue();
 }
 
-/** True while a requested redraw is due now (the runner holds the next tracking call until it is done). */
-export function drawsDue(): boolean {
+/** True while a requested redraw is due now (of plot `only`, if given). */
+export function drawsDue(only?: string): boolean {
   const now = performance.now();
-  for (const [id, job] of pending) if (due(id, job, now)) return true;
+  for (const [id, job] of pending) if ((only === undefined || id === only) && due(id, job, now)) return true;
   return false;
 }
 

@@ -8,6 +8,7 @@ import { ok, runAll } from './harness.mjs';
 import { openApp, stepTo, summary, traces, waitReady } from './page.mjs';
 import { cycleTests } from './cycle.mjs';
 import { faultTests } from './faults.mjs';
+import { perfTests } from './perf.mjs';
 
 const ROOT = new URL('../../', import.meta.url).pathname;
 const ARTIFACTS = ROOT + 'test-artifacts/';
@@ -239,6 +240,7 @@ const tests = [
   },
   ...cycleTests,
   ...faultTests,
+  ...perfTests,
 ];
 
 const server = await serve(ROOT + 'dist');

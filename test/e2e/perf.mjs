@@ -1,0 +1,186 @@
+// Speed and size checks of the built app, and the browser benchmark: prints the figures the README's "Speed"
+// table quotes (frames per second with 1e6 particles, long tasks, separatrix update times, Mpt/s in the workers
+// for one and two workers, worker memory). Frame rate and speed-up are printed, not asserted: on a shared 2-core
+// machine they follow the load of the neighbours (the load average is printed beside them). Asserted: the size
+// budget, that two workers give the same diagnostics as one, and loose floors that catch a stalled page.
+import { readdirSync, readFileSync, statSync } from 'node:fs';
+import { join } from 'node:path';
+import { cpus, loadavg } from 'node:os';
+import { gzipSync } from 'node:zlib';
+import { deflateSync, strToU8 } from 'fflate';
+import { ok } from './harness.mjs';
+import { waitReady } from './page.mjs';
+
+const ROOT = new URL('../../', import.meta.url).pathname;
+/** Budget for all JavaScript of the built app, gzip [bytes] (issue: ≤ 600 kB). */
+export const JS_BUDGET = 600 * 1000;
+const demo = JSON.parse(readFileSync(ROOT + 'examples/alder-booster.json', 'utf8'));
+const b64url = (u8) => Buffer.from(u8).toString('base64').replace(/\+/g, '-').replace(/\//g, '_').replace(/=+$/, '');
+const linkFor = (doc) => '#s1=' + b64url(deflateSync(strToU8(JSON.stringify(doc))));
+const load = () => `load average ${loadavg()[0].toFixed(1)} on ${cpus().length} cores`;
+
+function jsFiles(dir) {
+  return readdirSync(dir).flatMap((f) => {
+    const p = join(dir, f);
+    return statSync(p).isDirectory() ? jsFiles(p) : f.endsWith('.js') || f.endsWith('.mjs') ? [p] : [];
+  });
+}
+
+async function open(ctx, url, query, doc) {
+  const page = await ctx.newPage();
+  await page.goto(url + query + (doc ? linkFor(doc) : ''));
+  await waitReady(page, 60000);
+  return page;
+}
+
+function withParticles(n) {
+  const d = structuredClone(demo);
+  d.beam.particles = n;
+  return d;
+}
+
+// Diagnostics CSV of a page (downloaded through the app's export button), as rows of numbers.
+async function diagnosticsCsv(page) {
+  const [d] = await Promise.all([page.waitForEvent('download'), page.click('#export-diagnostics')]);
+  const lines = readFileSync(await d.path(), 'utf8').trim().split('\n');
+  const head = lines[0].split(',');
+  return lines.slice(1).map((l) => Object.fromEntries(l.split(',').map((v, i) => [head[i], Number(v)])));
+}
+
+async function stepTo(page, n, until) {
+  await page.fill('#step-n', String(n));
+  await page.click('#step');
+  await page.waitForFunction((u) => document.getElementById('turn')?.textContent === String(u) && document.getElementById('run')?.textContent === 'Run', until, { timeout: 120000 });
+}
+
+// Track 1e6 particles for `ms` with the given worker count; frame and speed figures.
+async function trackFigures(ctx, url, workers, ms) {
+  await ctx.addInitScript(() => {
+    window.__long = [];
+    new PerformanceObserver((l) => { for (const e of l.getEntries()) window.__long.push(e.duration); }).observe({ type: 'longtask', buffered: true });
+  });
+  const page = await open(ctx, url, `?debug&workers=${workers}`, withParticles(1_000_000));
+  const used = await page.evaluate(() => window.__phasewellDebug.workers());
+  const mem0 = await page.evaluate(() => window.__phasewellDebug.memory());
+  await page.evaluate(() => { window.__long = []; performance.clearMeasures(); window.__phasewellDebug.resetStats(); });
+  const turn0 = Number(await page.textContent('#turn'));
+  const t0 = Date.now();
+  await page.click('#run');
+  await page.waitForTimeout(ms);
+  await page.click('#run');
+  const wall = (Date.now() - t0) / 1000;
+  await page.waitForFunction(() => document.getElementById('run').textContent === 'Run');
+  const r = await page.evaluate(() => ({
+    long: window.__long, stats: window.__phasewellDebug.stats(),
+    draws: performance.getEntriesByType('measure').filter((e) => e.name === 'draw phase').length,
+  }));
+  const mem1 = await page.evaluate(() => window.__phasewellDebug.memory());
+  const turns = Number(await page.textContent('#turn')) - turn0;
+  await page.close();
+  return {
+    workers: used, turns, wall,
+    workerMpts: (r.stats.turns * 1e6) / (r.stats.trackMs * 1e3),
+    appMpts: (turns * 1e6) / wall / 1e6,
+    densityFps: r.draws / wall,
+    frames: r.stats.frames / wall,
+    longTasks: r.long.length, longest: Math.max(0, ...r.long),
+    memoryMB: mem1.map((m) => (m.bufferBytes / 2 ** 20).toFixed(1) + (m.heapBytes ? `+${(m.heapBytes / 2 ** 20).toFixed(1)} heap` : '')).join(', '),
+    memoryGrowthMB: mem1.reduce((a, m, k) => a + ((m.heapBytes ?? 0) - (mem0[k]?.heapBytes ?? 0)), 0) / 2 ** 20,
+  };
+}
+
+// Time from a field edit to the updated bucket area (DOM) and separatrix (Plotly trace), measured in the page.
+async function separatrixMs(page, field, values) {
+  const times = [];
+  for (const v of values) {
+    times.push(await page.evaluate(async ([field, v]) => {
+      const el = document.getElementById(field);
+      const sum = document.getElementById('sum-area');
+      const plot = document.getElementById('plot-phase');
+      const area0 = sum.dataset.value, sep0 = plot.data.find((t) => t.name === 'separatrix');
+      const setter = Object.getOwnPropertyDescriptor(HTMLInputElement.prototype, 'value').set;
+      const t0 = performance.now();
+      setter.call(el, String(v));
+      el.dispatchEvent(new Event('input', { bubbles: true }));
+      // Poll once per task (a MessageChannel loop is not clamped like nested timers).
+      const ch = new MessageChannel();
+      return new Promise((resolve) => {
+        let tArea = NaN;
+        ch.port1.onmessage = () => {
+          const now = performance.now();
+          if (Number.isNaN(tArea) && sum.dataset.value !== area0) tArea = now - t0;
+          const sep = plot.data.find((t) => t.name === 'separatrix');
+          if (!Number.isNaN(tArea) && sep !== sep0) resolve([tArea, now - t0]);
+          else if (now - t0 > 5000) resolve([tArea, NaN]);
+          else ch.port2.postMessage(null);
+        };
+        ch.port2.postMessage(null);
+      });
+    }, [field, v]));
+    await page.waitForTimeout(150);
+  }
+  const med = (i) => times.map((t) => t[i]).sort((a, b) => a - b)[Math.floor(times.length / 2)];
+  return { numbersMs: med(0), separatrixMs: med(1) };
+}
+
+/** Speed and size tests (registered in run.mjs). */
+export const perfTests = [
+  {
+    name: 'all JavaScript of the built app is at most 600 kB gzip',
+    async fn() {
+      const files = jsFiles(ROOT + 'dist').map((p) => ({ p: p.slice(ROOT.length), raw: statSync(p).size, gz: gzipSync(readFileSync(p)).length }));
+      const total = files.reduce((a, f) => a + f.gz, 0);
+      for (const f of files) console.log(`     ${f.p}: ${(f.raw / 1000).toFixed(0)} kB, ${(f.gz / 1000).toFixed(1)} kB gzip`);
+      console.log(`     total JavaScript: ${(total / 1000).toFixed(1)} kB gzip (budget ${JS_BUDGET / 1000} kB)`);
+      ok(total <= JS_BUDGET, `built JavaScript is ${(total / 1000).toFixed(1)} kB gzip, over the ${JS_BUDGET / 1000} kB budget`);
+    },
+  },
+  {
+    name: 'two workers give the diagnostics of one (same seed, same turns), and a split run repeats exactly',
+    async fn({ ctx, url }) {
+      const doc = withParticles(200_000); // at workers.pool SPLIT_MIN: split where two cores are offered
+      const one = await open(ctx, url, '?debug&workers=1', doc);
+      const two = await open(ctx, url, '?debug&workers=2', doc);
+      const again = await open(ctx, url, '?debug&workers=2', doc);
+      ok((await one.evaluate(() => window.__phasewellDebug.workers())) === 1, 'one worker asked for');
+      ok((await two.evaluate(() => window.__phasewellDebug.workers())) === 2, 'the beam should be split over two workers');
+      for (const p of [one, two, again]) await stepTo(p, 60, 60);
+      const [a, b, c] = [await diagnosticsCsv(one), await diagnosticsCsv(two), await diagnosticsCsv(again)];
+      ok(a.length === 7 && b.length === 7, `rows: ${a.length}, ${b.length}`);
+      ok(JSON.stringify(b) === JSON.stringify(c), 'a split run must repeat exactly with the same seed');
+      const rel = (x, y) => Math.abs(x - y) / Math.max(Math.abs(x), Math.abs(y), 1e-300);
+      for (let i = 0; i < a.length; i++) {
+        for (const k of ['turn', 'alive', 'lost', 'lengthFwhm_s', 'insideFraction']) ok(a[i][k] === b[i][k], `row ${i} ${k}: ${a[i][k]} vs ${b[i][k]}`);
+        // Same particles, same arithmetic per particle; only the summation order differs (1e-9 ≫ rounding of 1e5 terms).
+        for (const k of ['rmsDt_s', 'rmsDE_eV', 'emittanceRms_eVs']) ok(rel(a[i][k], b[i][k]) < 1e-9, `row ${i} ${k}: ${a[i][k]} vs ${b[i][k]}`);
+        for (const k of ['meanDt_s', 'meanDE_eV']) ok(Math.abs(a[i][k] - b[i][k]) < 1e-9 * (k === 'meanDt_s' ? a[i].rmsDt_s : a[i].rmsDE_eV), `row ${i} ${k}`);
+        // Split 90/95 % areas come from the merged action histogram: within 0.1 % (core/diagnostics/partial.ts).
+        for (const k of ['emittance90_eVs', 'emittance95_eVs']) ok(rel(a[i][k], b[i][k]) < 1e-3, `row ${i} ${k}: ${a[i][k]} vs ${b[i][k]}`);
+      }
+    },
+  },
+  {
+    name: 'browser benchmark: 1e6 particles with one and two workers, separatrix update times',
+    async fn({ ctx, url }) {
+      const figures = [];
+      for (const w of [1, 2]) {
+        const f = await trackFigures(ctx, url, w, 8000);
+        figures.push(f);
+        console.log(`     1e6 particles, ${f.workers} worker(s): ${f.turns} turns in ${f.wall.toFixed(1)} s; ${f.workerMpts.toFixed(0)} Mpt/s in the workers, ${f.appMpts.toFixed(0)} Mpt/s in the app; ` +
+          `${f.densityFps.toFixed(1)} density pictures/s, ${f.frames.toFixed(1)} frames/s received; long tasks ${f.longTasks}, longest ${f.longest.toFixed(0)} ms; ` +
+          `worker memory ${f.memoryMB} MB (heap growth ${f.memoryGrowthMB.toFixed(1)} MB); ${load()}`);
+      }
+      console.log(`     two workers / one: ${(figures[1].workerMpts / figures[0].workerMpts).toFixed(2)}x in the workers, ${(figures[1].appMpts / figures[0].appMpts).toFixed(2)}x in the app`);
+      const page = await open(ctx, url, '', null);
+      const one = await separatrixMs(page, 'f-rf-systems-0-voltage', [21000, 22000, 23000, 24000, 25000]);
+      const two = structuredClone(demo);
+      two.rf.systems.push({ harmonic: 8, voltage: 8000, phase: 180, position: 0 });
+      await page.goto(url + 'index.html' + linkFor(two));
+      await waitReady(page);
+      const several = await separatrixMs(page, 'f-rf-systems-0-voltage', [21000, 22000, 23000, 24000, 25000]);
+      console.log(`     edit → bucket numbers / separatrix drawn [ms, median of 5]: 1 RF ${one.numbersMs.toFixed(1)} / ${one.separatrixMs.toFixed(1)}; 2 RF ${several.numbersMs.toFixed(1)} / ${several.separatrixMs.toFixed(1)}; ${load()}`);
+      ok(figures.every((f) => f.turns > 0 && f.densityFps >= 2), 'the density picture must keep updating while tracking');
+      ok(Number.isFinite(one.separatrixMs) && Number.isFinite(several.separatrixMs), 'the separatrix must follow an edit');
+    },
+  },
+];
