@@ -65,7 +65,7 @@ function RightColumn() {
           <CycleView active={tab === 'cycle'} />
         </div>
         <div className={page('intensity')} aria-hidden={tab !== 'intensity'}>
-          <IntensityView />
+          <IntensityView active={tab === 'intensity'} />
         </div>
       </div>
     </div>

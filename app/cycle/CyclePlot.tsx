@@ -18,9 +18,9 @@ export const FLAG_COLOUR: Record<CycleInterval['kind'], string> = {
 // The tracker's time marker follows at most this often [ms].
 const MARK_GAP_MS = 1000;
 
-/** A plot of traces against time with shaded intervals; `mark` is the tracker's time [s] or null. */
+/** A plot of traces against time with shaded intervals; `mark` is the tracker's time [s] or null; drawn only while `active` (its tab open). */
 export function CyclePlot(props: {
-  id: string; title: string; data: Data[]; intervals: CycleInterval[]; mark: number | null; logY?: boolean; vlines?: number[];
+  id: string; title: string; data: Data[]; intervals: CycleInterval[]; mark: number | null; logY?: boolean; vlines?: number[]; active: boolean;
 }) {
   const ref = useRef<HTMLDivElement>(null);
   const layout = useRef<Partial<Layout>>({
@@ -31,8 +31,9 @@ export function CyclePlot(props: {
     datarevision: 0,
   });
   useResize(ref, 'cycle-' + props.id);
-  const { data, intervals, mark, logY, vlines } = props;
+  const { data, intervals, mark, logY, vlines, active } = props;
   useEffect(() => {
+    if (!active) return;
     const L = layout.current;
     const shapes: Partial<Shape>[] = intervals.map((iv) => ({
       type: 'rect', xref: 'x', yref: 'paper', x0: iv.tStart * 1e3, x1: iv.tEnd * 1e3, y0: 0, y1: 1,
@@ -44,7 +45,7 @@ export function CyclePlot(props: {
     L.yaxis!.type = logY ? 'log' : 'linear';
     L.datarevision = (L.datarevision as number) + 1;
     scheduleDraw('cycle-' + props.id, () => ref.current && Plotly.react(ref.current, data, L, CONFIG), MARK_GAP_MS);
-  }, [data, intervals, mark, logY, vlines, props.id]);
+  }, [data, intervals, mark, logY, vlines, props.id, active]);
   return (
     <figure className="small-plot">
       <figcaption>{props.title}</figcaption>

@@ -83,7 +83,7 @@ export function CycleView(props: { active: boolean }) {
         {plan && traces ? (
           <div className="cycle-plots">
             {PLOTS.map(([id, title]) => (
-              <CyclePlot key={id} id={id} title={title} data={traces[id]} intervals={plan.intervals} mark={time} logY={LOG_PLOTS.has(id)} vlines={vlines} />
+              <CyclePlot key={id} id={id} title={title} data={traces[id]} intervals={plan.intervals} mark={time} logY={LOG_PLOTS.has(id)} vlines={vlines} active={props.active} />
             ))}
           </div>
         ) : null}

@@ -53,8 +53,8 @@ function Numbers(props: { r: IntensityReport }) {
   );
 }
 
-/** The intensity panel. */
-export function IntensityView() {
+/** The intensity panel; its plots draw only while it is open (`active`). */
+export function IntensityView(props: { active: boolean }) {
   const st = useApp((s) => s.intensity);
   const valid = useApp((s) => s.valid);
   const rfSep = bucketAt(valid, null).sep;
@@ -71,9 +71,9 @@ export function IntensityView() {
       {r && t ? (
         <div className="int-body">
           <Numbers r={r} />
-          <SmallPlot id="voltage" title="RF and induced voltage over the bunch" data={t.voltages} yTitle="voltage [kV]" y2="λ [1/ns]" />
-          <SmallPlot id="well" title="potential well (per turn, 0 at the bottom; the beam's field inside its window and behind it)" data={t.well} yTitle="U" />
-          <SmallPlot id="separatrix" title="separatrix with the beam's own field" data={t.sep} yTitle="dE [MeV]" />
+          <SmallPlot active={props.active} id="voltage" title="RF and induced voltage over the bunch" data={t.voltages} yTitle="voltage [kV]" y2="λ [1/ns]" />
+          <SmallPlot active={props.active} id="well" title="potential well (per turn, 0 at the bottom; the beam's field inside its window and behind it)" data={t.well} yTitle="U" />
+          <SmallPlot active={props.active} id="separatrix" title="separatrix with the beam's own field" data={t.sep} yTitle="dE [MeV]" />
         </div>
       ) : (
         <p className="muted int-empty" id="intensity-empty">

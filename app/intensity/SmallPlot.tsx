@@ -6,8 +6,8 @@ import { BASE_LAYOUT, CONFIG } from '../views/Panel.tsx';
 import { scheduleDraw } from '../views/schedule.ts';
 import { useResize } from '../views/useResize.ts';
 
-/** Traces against dt [ns]; `y2` names a right-hand axis for traces with yaxis 'y2'. */
-export function SmallPlot(props: { id: string; title: string; data: Data[]; yTitle: string; y2?: string; legend?: boolean }) {
+/** Traces against dt [ns]; `y2` names a right-hand axis for traces with yaxis 'y2'; drawn only while `active` (its tab open). */
+export function SmallPlot(props: { id: string; title: string; data: Data[]; yTitle: string; y2?: string; legend?: boolean; active: boolean }) {
   const ref = useRef<HTMLDivElement>(null);
   const layout = useRef<Partial<Layout>>({
     ...BASE_LAYOUT,
@@ -21,10 +21,11 @@ export function SmallPlot(props: { id: string; title: string; data: Data[]; yTit
   } as Partial<Layout>);
   useResize(ref, 'int-' + props.id);
   useEffect(() => {
+    if (!props.active) return;
     const L = layout.current;
     L.datarevision = (L.datarevision as number) + 1;
     scheduleDraw('int-' + props.id, () => ref.current && Plotly.react(ref.current, props.data, L, CONFIG));
-  }, [props.data, props.id]);
+  }, [props.data, props.id, props.active]);
   return (
     <figure className="small-plot int-plot">
       <figcaption>{props.title}</figcaption>
