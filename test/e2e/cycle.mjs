@@ -15,6 +15,14 @@ async function openPreset(ctx, url, id) {
   return page;
 }
 
+// Wait until a cycle plot shows a cycle of at least tEnd ms (a plan of the previous setup may be drawn first).
+async function waitCycleEnd(page, plot, tEnd) {
+  await page.waitForFunction(([p, e]) => {
+    const t = document.getElementById('plot-cycle-' + p)?.data?.[0];
+    return t && t.x[t.x.length - 1] >= e;
+  }, [plot, tEnd], { timeout: 20000 });
+}
+
 // x and y of a named trace of a cycle plot, once the plot is drawn.
 async function cycleTrace(page, plot, name) {
   await page.waitForFunction(([p, n]) => document.getElementById('plot-cycle-' + p)?.data?.some((t) => t.name === n), [plot, name], { timeout: 20000 });
@@ -40,6 +48,7 @@ export const cycleTests = [
     async fn({ ctx, url }) {
       const page = await openPreset(ctx, url, 'hazel-transition-jump');
       await page.click('#tab-cycle');
+      await waitCycleEnd(page, 'phis', 5.6); // the hazel cycle: 16000 turns, 5.68 ms
       const { x, y } = await cycleTrace(page, 'phis', 'φs');
       const i = y.findIndex((v, k) => k > 0 && y[k - 1] < 90 && v > 90);
       ok(i > 0, `φs never crosses 90°: ${y.slice(0, 5)} … ${y.slice(-5)}`);
@@ -69,6 +78,7 @@ export const cycleTests = [
       const linked = await linkedSetup(page);
       ok(JSON.stringify(linked.energy.ramp) === JSON.stringify({ kind: 'table', quantity: 'kinetic', points: [[0.002, 2.05e8], [0.01, 2.3e8]] }), `link: ${JSON.stringify(linked.energy.ramp)}`);
       await page.click('#tab-cycle');
+      await waitCycleEnd(page, 'energy', 9.99); // the table ends at 10 ms
       const e = await cycleTrace(page, 'energy', 'kinetic energy');
       ok(Math.abs(e.y[e.y.length - 1] - 0.23) < 1e-6, `the planned cycle ends at ${e.y[e.y.length - 1]} GeV, the table at 0.23`);
       // Line 4 holds the bad value (line 2 is a comment, blank lines count).
@@ -91,10 +101,7 @@ export const cycleTests = [
       const page = await openApp(ctx, url);
       await page.fill('#f-run-turns', '20000'); // a ten times longer ramp: the bucket grows by 10 % at constant voltage
       await page.click('#tab-cycle');
-      await page.waitForFunction(() => {
-        const t = document.getElementById('plot-cycle-area')?.data?.[0];
-        return t && t.x[t.x.length - 1] > 21; // the 20000-turn cycle is drawn (21.2 ms)
-      }, null, { timeout: 20000 });
+      await waitCycleEnd(page, 'area', 21); // the 20000-turn cycle (21.2 ms)
       const before = await cycleTrace(page, 'voltage', 'system 1');
       ok(new Set(before.y).size === 1, 'the demo voltage should start constant');
       const area0 = await cycleTrace(page, 'area', 'bucket area');
