@@ -18,9 +18,9 @@ export const FLAG_COLOUR: Record<CycleInterval['kind'], string> = {
 // The tracker's time marker follows at most this often [ms].
 const MARK_GAP_MS = 1000;
 
-/** A plot of traces against time with shaded intervals; `mark` is the tracker's time [s] or null; drawn only while `active` (its tab open). */
+/** A plot of traces against time with shaded intervals; `mark` is the tracker's time [s] or null; `zero` keeps 0 on the y axis; drawn only while `active` (its tab open). */
 export function CyclePlot(props: {
-  id: string; title: string; data: Data[]; intervals: CycleInterval[]; mark: number | null; logY?: boolean; vlines?: number[]; active: boolean;
+  id: string; title: string; data: Data[]; intervals: CycleInterval[]; mark: number | null; logY?: boolean; zero?: boolean; vlines?: number[]; active: boolean;
 }) {
   const ref = useRef<HTMLDivElement>(null);
   const layout = useRef<Partial<Layout>>({
@@ -31,7 +31,7 @@ export function CyclePlot(props: {
     datarevision: 0,
   });
   useResize(ref, 'cycle-' + props.id);
-  const { data, intervals, mark, logY, vlines, active } = props;
+  const { data, intervals, mark, logY, zero, vlines, active } = props;
   useEffect(() => {
     if (!active) return;
     const L = layout.current;
@@ -43,9 +43,10 @@ export function CyclePlot(props: {
     if (mark !== null) shapes.push({ type: 'line', xref: 'x', yref: 'paper', x0: mark * 1e3, x1: mark * 1e3, y0: 0, y1: 1, line: { color: '#2f6b3a', width: 1.2 } });
     L.shapes = shapes as Shape[];
     L.yaxis!.type = logY ? 'log' : 'linear';
+    L.yaxis!.rangemode = zero ? 'tozero' : 'normal';
     L.datarevision = (L.datarevision as number) + 1;
     scheduleDraw('cycle-' + props.id, () => ref.current && Plotly.react(ref.current, data, L, CONFIG), MARK_GAP_MS);
-  }, [data, intervals, mark, logY, vlines, props.id, active]);
+  }, [data, intervals, mark, logY, zero, vlines, props.id, active]);
   return (
     <figure className="small-plot">
       <figcaption>{props.title}</figcaption>

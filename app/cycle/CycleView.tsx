@@ -18,6 +18,8 @@ const PLOTS: [id: string, title: string][] = [
 
 // Near transition the bucket grows without bound (η → 0): area, height and adiabaticity read better on log axes.
 const LOG_PLOTS = new Set(['area', 'height', 'adiabaticity']);
+// Quantities read against zero (a constant voltage is a flat line, not noise around one tick).
+const ZERO_PLOTS = new Set(['voltage', 'filling', 'fs']);
 
 const KIND_LABEL = { overfilled: 'bucket too small', noBucket: 'no bucket', nonAdiabatic: 'not adiabatic' } as const;
 
@@ -83,7 +85,7 @@ export function CycleView(props: { active: boolean }) {
         {plan && traces ? (
           <div className="cycle-plots">
             {PLOTS.map(([id, title]) => (
-              <CyclePlot key={id} id={id} title={title} data={traces[id]} intervals={plan.intervals} mark={time} logY={LOG_PLOTS.has(id)} vlines={vlines} active={props.active} />
+              <CyclePlot key={id} id={id} title={title} data={traces[id]} intervals={plan.intervals} mark={time} logY={LOG_PLOTS.has(id)} zero={ZERO_PLOTS.has(id)} vlines={vlines} active={props.active} />
             ))}
           </div>
         ) : null}

@@ -59,6 +59,11 @@ export const cycleTests = [
       const tt = Number(await page.getAttribute('#cycle-transition', 'data-value')) * 1e3;
       ok(Math.abs(tt - tSwitch) < dx, `planner's transition time ${tt} ms vs ${tSwitch} ms`);
       ok(y.slice(0, i).every((v) => v < 90) && y.slice(i).every((v) => v > 90), 'φs should stay on one side of 90° before and after');
+      // The slope switch offered at the planner's transition time, in the editor's ms.
+      await page.selectOption('#f-rf-slope', 'auto');
+      await page.selectOption('#f-rf-slope', 'timed');
+      const sw = Number(await page.inputValue('#f-rf-switchTime'));
+      ok(Math.abs(sw - tt) < 1e-5, `switch time prefilled with ${sw} ms, planner ${tt} ms`);
       await page.fill('#tpf', '400');
       await stepTo(page, 3600, 3600, 90000);
       const events = await page.textContent('#cycle-events');
