@@ -10,6 +10,12 @@ import type { Answer, Proposal } from './types.ts';
 const PLAN_SAMPLES = 400;
 const RAMP_STEPS = 60;
 
+// Proposed programs keep 7 significant digits: far below the solvers' tolerance, and readable in the editor and the link.
+const r7 = (x: number) => Number(x.toPrecision(7));
+function rounded<P extends { start: number | null; points: [number, number][] }>(p: P): P {
+  return { ...p, start: p.start === null ? null : r7(p.start), points: p.points.map(([t, v]) => [r7(t), r7(v)] as [number, number]) };
+}
+
 function answer<T>(f: () => T): Answer<T> {
   try {
     return { ok: true, value: f() };
@@ -32,12 +38,12 @@ const api: AnalysisApi = {
     answer(() => {
       const r = constantBucketVoltage(setup, target);
       const title = 'area' in target ? `bucket area held at ${r.area.toPrecision(4)} eV·s` : `filling factor held at ${target.filling}`;
-      return { kind: 'voltage', title, area: r.area, programs: r.programs };
+      return { kind: 'voltage', title, area: r.area, programs: r.programs.map(rounded) };
     }),
   fastestRamp: (setup, pcEnd, filling) =>
     answer(() => {
       const r = fastestRamp(setup, pcEnd, { filling }, { steps: RAMP_STEPS });
-      return { kind: 'momentum', title: `fastest ramp at filling factor ${filling}`, area: r.area, program: r.program };
+      return { kind: 'momentum', title: `fastest ramp at filling factor ${filling}`, area: r.area, program: rounded(r.program) };
     }),
   intensity: (setup) => answer(() => intensityReport(setup)),
 };
