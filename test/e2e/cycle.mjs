@@ -152,6 +152,19 @@ export const cycleTests = [
       ok(sep.includes('with the beam') && sep.includes('RF alone'), `separatrix traces: ${sep}`);
       await page.waitForTimeout(600);
       await page.screenshot({ path: ARTIFACTS + 'intensity-view.png' });
+      // Impedance table from CSV: a bad row is named by its line and nothing changes; a good file adds the table.
+      const models = () => page.$$eval('#sec-collective legend', (l) => l.map((x) => x.textContent).filter((t) => /Resonator|Space charge|Inductive|table/.test(t)).length);
+      const n0 = await models();
+      await page.setInputFiles('#csv-impedance', csv('z-bad.csv', 'frequency_GHz,re_Ohm,im_Ohm\n0.1,10,1\nx,1,1\n'));
+      const zerr = await (await page.waitForSelector('#csv-impedance-error')).textContent();
+      ok(/line 3: frequency "x" is not a number/.test(zerr), `impedance CSV error: ${zerr}`);
+      ok((await models()) === n0, 'a bad impedance file must not change the list');
+      await page.setInputFiles('#csv-impedance', csv('z.csv', 'frequency_GHz,re_Ohm,im_Ohm\n0.1,10,1\n1,20,5\n'));
+      await page.waitForFunction((n) => [...document.querySelectorAll('#sec-collective legend')].filter((l) => /Impedance table/.test(l.textContent)).length === 1, n0);
+      const zl = (await linkedSetup(page)).impedances.at(-1);
+      ok(zl.kind === 'table' && zl.frequency[1] === 1e9 && zl.im[1] === 5, `link impedance: ${JSON.stringify(zl)}`);
+      await page.evaluate(() => document.getElementById('sec-collective').scrollIntoView());
+      await page.screenshot({ path: ARTIFACTS + 'intensity-editor.png' });
       // Lepton ring: U0 = 88.46 keV·E[GeV]⁴/ρ[m] (Sands, SLAC-121, electrons and positrons) = 843 keV at 3 GeV, ρ = 8.5 m.
       await page.selectOption('#preset', 'elm-lepton-ring');
       await waitReady(page);
