@@ -41,8 +41,9 @@ function useSpaceToRun() {
 const TABS = [['beam', 'Beam'], ['cycle', 'Cycle'], ['intensity', 'Intensity']] as const;
 type Tab = (typeof TABS)[number][0];
 
-// The right column's tabs. All stay mounted, the closed ones hidden at full size: a plot that loses its div or
-// shrinks to nothing cannot be resized by Plotly, and each redraws only when its data change.
+// The right column's tabs. The beam page stays mounted (hidden at full size when closed: its plots follow the
+// tracker and keep a displayed div); the cycle and intensity pages exist only while open, so a closed tab costs
+// the page nothing while tracking.
 function RightColumn() {
   const [tab, setTab] = useState<Tab>('beam');
   const page = (id: Tab) => 'tab-page' + (tab === id ? '' : ' closed');
@@ -61,12 +62,16 @@ function RightColumn() {
           <Evolution />
           <Waterfall />
         </div>
-        <div className={page('cycle')} aria-hidden={tab !== 'cycle'}>
-          <CycleView active={tab === 'cycle'} />
-        </div>
-        <div className={page('intensity')} aria-hidden={tab !== 'intensity'}>
-          <IntensityView active={tab === 'intensity'} />
-        </div>
+        {tab === 'cycle' ? (
+          <div className="tab-page">
+            <CycleView active />
+          </div>
+        ) : null}
+        {tab === 'intensity' ? (
+          <div className="tab-page">
+            <IntensityView active />
+          </div>
+        ) : null}
       </div>
     </div>
   );
