@@ -93,6 +93,7 @@ export function CollectiveSection() {
         </fieldset>
       ) : null}
       <Radiation />
+      {used ? <p className="field-note">The separatrix in the phase space is that of the RF alone; the Intensity tab shows it with the beam's own field.</p> : null}
     </Section>
   );
 }

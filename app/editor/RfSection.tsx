@@ -83,10 +83,10 @@ export function RfSection() {
   );
 }
 
-// Voltage and phase programs are tables: edited in the setup file, summarised here.
+// Voltage and phase programs are tables: edited under Cycle programs (ProgramSection), summarised here.
 function ProgramNote(props: { i: number }) {
   const prog = useApp((s) => getIn(s.draft, ['rf', 'systems', props.i, 'program'])) as { voltage?: unknown[]; phase?: unknown[] } | undefined;
   if (!prog) return null;
   const parts = [prog.voltage ? `voltage (${prog.voltage.length} points)` : '', prog.phase ? `phase (${prog.phase.length} points)` : ''].filter(Boolean);
-  return <p className="field-note">Program in time: {parts.join(', ')}; edit it in the setup file.</p>;
+  return <p className="field-note">Program in time: {parts.join(', ')}; edit it under Cycle programs.</p>;
 }
