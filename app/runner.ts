@@ -9,7 +9,7 @@ import { TrackPool } from '../workers/pool.ts';
 import { bucketAt, type RunPoint } from './derived.ts';
 import { useApp, type AppState } from './store.ts';
 import { chooseWindow, needsRefit } from './viewWindow.ts';
-import { drawsDue } from './views/schedule.ts';
+import { drawsDue, holdDrawsWhile, resumeDraws } from './views/schedule.ts';
 
 /** Particle coordinates come back as points (not only a histogram) up to this count: SVG points stay a short draw. */
 export const POINTS_MAX = 5_000;
@@ -42,6 +42,8 @@ let redraw = false;
 /** Start the worker and the frame loop (once, at page load). */
 export function startRunner(): void {
   api = newPool();
+  // Without a spare core, page and workers take turns: no drawing while a tracking call is out, no call while draws are due.
+  holdDrawsWhile(() => holdForDraws && busy && useApp.getState().running);
   // Test hook, only with ?debug in the address: make a worker fail, read how many workers track.
   const q = new URLSearchParams(location.search);
   if (q.has('debug')) (window as unknown as { __phasewellDebug: unknown }).__phasewellDebug = {
@@ -199,6 +201,7 @@ function call(fn: () => Promise<RunFrame>, fresh: boolean, what: string): void {
       const t = performance.now();
       accept(f, fresh);
       if (!holdForDraws && useApp.getState().running) setTimeout(pump); // no wait for an animation frame
+      else resumeDraws();
       // User timing of the store update and the React render it schedules (a microtask queued before this one).
       queueMicrotask(() => performance.measure('accept frame', { start: t }));
     },

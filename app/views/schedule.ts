@@ -19,8 +19,23 @@ const lastCost = new Map<string, number>();
 // Each plot may use at most 1/DUTY of the main thread: gap ≥ DUTY × its last drawing time.
 const DUTY = 8;
 
+// While this says so, only urgent drawing starts (see holdDrawsWhile).
+let held: () => boolean = () => false;
+
+/** While `h()` is true only urgent plots draw: the runner's workers hold every core, so drawing waits for their frame. */
+export function holdDrawsWhile(h: () => boolean): void {
+  held = h;
+}
+
+/** Start drawing what waited while drawing was held. */
+export function resumeDraws(): void {
+  if (pending.size) queue();
+}
+
 function due(id: string, job: Job, now: number): boolean {
-  if (job.urgent || !useApp.getState().running) return true;
+  if (job.urgent) return true;
+  if (held()) return false;
+  if (!useApp.getState().running) return true;
   const gap = Math.max(job.minGapMs, DUTY * (lastCost.get(id) ?? 0));
   return now - (lastDrawn.get(id) ?? -Infinity) >= gap;
 }
@@ -84,7 +99,7 @@ function flush(): void {
     performance.measure('draw ' + id, { start: now }); // user timing: the browser tests report these
     break;
   }
-  if (!pending.size) return;
+  if (!pending.size || held()) return; // resumeDraws restarts a held queue
   if (performance.now() - frameStart < SLICE_MS) {
     queued = true;
     channel.port2.postMessage(null);
