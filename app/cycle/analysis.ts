@@ -6,7 +6,7 @@ import * as Comlink from 'comlink';
 import { withMomentumProgram, withRfProgram } from '../../core/program/index.ts';
 import type { SetupInput } from '../../core/setup/schema.ts';
 import { setDraft, useApp } from '../store.ts';
-import type { AnalysisApi } from './worker.ts';
+import type { AnalysisApi } from './analysisWorker.ts';
 import type { CycleState } from './types.ts';
 
 // Wait this long after the last edit before asking the worker (typing a number edits on every key).
@@ -66,7 +66,7 @@ const reIntensity = coalesced(() => id(useApp.getState().valid), async () => {
 /** Start the worker and follow the store (once). */
 export function startAnalysis(): void {
   if (api) return;
-  const worker = new Worker(new URL('./worker.ts', import.meta.url), { type: 'module' });
+  const worker = new Worker(new URL('./analysisWorker.ts', import.meta.url), { type: 'module' });
   api = Comlink.wrap<AnalysisApi>(worker);
   useApp.subscribe((s, prev) => {
     if (s.valid !== prev.valid || s.cycle.fillingLimit !== prev.cycle.fillingLimit || s.cycle.adiabaticLimit !== prev.cycle.adiabaticLimit) replan();

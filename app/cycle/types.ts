@@ -1,5 +1,5 @@
 // What the cycle view and the intensity view keep in the store: planner settings and results, the design
-// helper's proposal, and the intensity report. Computed in the analysis worker (worker.ts), never on the page.
+// helper's proposal, and the intensity report. Computed in the analysis worker (analysisWorker.ts), never on the page.
 import type { CyclePlan } from '../../core/cycle/index.ts';
 import type { ProgramData } from '../../core/program/index.ts';
 import type { Setup } from '../../core/setup/schema.ts';
