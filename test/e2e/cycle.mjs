@@ -32,12 +32,17 @@ async function cycleTrace(page, plot, name) {
   }, [plot, name]);
 }
 
-// The setup a page's link carries (the fragment is deflated JSON in base64url).
-async function linkedSetup(page) {
-  await page.waitForTimeout(400); // the address bar follows edits after a short delay
-  const hash = new URL(page.url()).hash;
-  const b64 = hash.replace(/^#s1=/, '').replace(/-/g, '+').replace(/_/g, '/');
-  return JSON.parse(strFromU8(inflateSync(Buffer.from(b64, 'base64'))));
+// The setup a page's link carries (the fragment is deflated JSON in base64url). The address bar follows edits
+// after a short delay: poll until `until(setup)` holds (at most 5 s), then return the last one read.
+async function linkedSetup(page, until = () => true) {
+  let doc = null;
+  for (let i = 0; i < 50; i++) {
+    await page.waitForTimeout(100);
+    const b64 = new URL(page.url()).hash.replace(/^#s1=/, '').replace(/-/g, '+').replace(/_/g, '/');
+    doc = JSON.parse(strFromU8(inflateSync(Buffer.from(b64, 'base64'))));
+    if (until(doc)) break;
+  }
+  return doc;
 }
 
 const csv = (name, text) => ({ name, mimeType: 'text/csv', buffer: Buffer.from(text) });
@@ -80,7 +85,7 @@ export const cycleTests = [
       await page.setInputFiles('#csv-momentum', csv('ramp.csv', 'time_ms,kinetic_MeV\n# a slow ramp\n2,205\n10,230\n'));
       await page.waitForSelector('#csv-momentum-done');
       ok((await page.inputValue('#f-energy-ramp-points-0-0')) === '2' && (await page.inputValue('#f-energy-ramp-points-1-1')) === '230', 'table rows after import');
-      const linked = await linkedSetup(page);
+      const linked = await linkedSetup(page, (d) => d.energy.ramp.kind === 'table');
       ok(JSON.stringify(linked.energy.ramp) === JSON.stringify({ kind: 'table', quantity: 'kinetic', points: [[0.002, 2.05e8], [0.01, 2.3e8]] }), `link: ${JSON.stringify(linked.energy.ramp)}`);
       await page.click('#tab-cycle');
       await waitCycleEnd(page, 'energy', 9.99); // the table ends at 10 ms
@@ -126,7 +131,7 @@ export const cycleTests = [
       const area = await cycleTrace(page, 'area', 'bucket area');
       const lo = Math.min(...area.y), hi = Math.max(...area.y);
       ok(hi / lo < 1.02, `bucket area ${lo} … ${hi} eV·s`);
-      const linked = await linkedSetup(page);
+      const linked = await linkedSetup(page, (d) => d.rf.systems[0].program?.voltage);
       const prog = linked.rf.systems[0].program?.voltage;
       ok(Array.isArray(prog) && prog.length > 5, `link voltage program: ${JSON.stringify(prog)?.slice(0, 80)}`);
       ok(await page.isVisible('#tbl-rf-systems-0-program-voltage'), 'the editor shows the voltage table');
@@ -161,7 +166,7 @@ export const cycleTests = [
       ok((await models()) === n0, 'a bad impedance file must not change the list');
       await page.setInputFiles('#csv-impedance', csv('z.csv', 'frequency_GHz,re_Ohm,im_Ohm\n0.1,10,1\n1,20,5\n'));
       await page.waitForFunction((n) => [...document.querySelectorAll('#sec-collective legend')].filter((l) => /Impedance table/.test(l.textContent)).length === 1, n0);
-      const zl = (await linkedSetup(page)).impedances.at(-1);
+      const zl = (await linkedSetup(page, (d) => d.impedances.at(-1)?.kind === 'table')).impedances.at(-1);
       ok(zl.kind === 'table' && zl.frequency[1] === 1e9 && zl.im[1] === 5, `link impedance: ${JSON.stringify(zl)}`);
       await page.evaluate(() => document.getElementById('sec-collective').scrollIntoView());
       await page.screenshot({ path: ARTIFACTS + 'intensity-editor.png' });
