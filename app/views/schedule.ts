@@ -16,8 +16,10 @@ interface Job {
 const pending = new Map<string, Job>();
 const lastDrawn = new Map<string, number>();
 const lastCost = new Map<string, number>();
-// Each plot may use at most 1/DUTY of the main thread: gap ≥ DUTY × its last drawing time.
+// Each plot may use at most 1/DUTY of the main thread: gap ≥ DUTY × its last drawing time. The beam picture is
+// what one watches while tracking (≥ 20 pictures a second wanted): it may use up to half.
 const DUTY = 8;
+const DUTY_OF: Record<string, number> = { phase: 2 };
 
 // While this says so, only urgent drawing starts (see holdDrawsWhile).
 let held: () => boolean = () => false;
@@ -36,7 +38,7 @@ function due(id: string, job: Job, now: number): boolean {
   if (job.urgent) return true;
   if (held()) return false;
   if (!useApp.getState().running) return true;
-  const gap = Math.max(job.minGapMs, DUTY * (lastCost.get(id) ?? 0));
+  const gap = Math.max(job.minGapMs, (DUTY_OF[id] ?? DUTY) * (lastCost.get(id) ?? 0));
   return now - (lastDrawn.get(id) ?? -Infinity) >= gap;
 }
 
