@@ -97,8 +97,10 @@ export class TrackPool {
     this.setup = s;
     this.split = this.maxWorkers >= 2 && s.beam.particles >= SPLIT_MIN && singleParticle(s);
     const ms = CALL_DEADLINE_MS + GENERATE_MS_PER_PARTICLE * s.beam.particles;
-    if (!this.split) return this.guard(this.member(0).api.init(s, v, pointsMax), ms, 'generating the beam');
-    return this.splitInit(s, v, ms);
+    if (this.split) return this.splitInit(s, v, ms);
+    // A second worker left from a split beam would keep its half: let it go.
+    for (const m of this.members.splice(1)) m.worker.terminate();
+    return this.guard(this.member(0).api.init(s, v, pointsMax), ms, 'generating the beam');
   }
 
   private async splitInit(s: Setup, v: ViewWindow, ms: number): Promise<RunFrame> {
