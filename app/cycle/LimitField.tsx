@@ -2,6 +2,9 @@
 // field, the value and the allowed range; only a good value is passed on.
 import { useState } from 'react';
 
+// Bounds as a person writes them: 1e-6, not 0.000001.
+const bound = (x: number) => (x !== 0 && Math.abs(x) < 1e-3 ? x.toExponential() : String(x));
+
 /** Labelled number input with its own range check. */
 export function LimitField(props: { id: string; label: string; name: string; value: number; lo: number; hi: number; unit?: string; onValue: (v: number) => void }) {
   const [text, setText] = useState(String(props.value));
@@ -25,7 +28,7 @@ export function LimitField(props: { id: string; label: string; name: string; val
       {props.unit ? <span className="unit">{props.unit}</span> : null}
       {bad ? (
         <span className="field-error" role="alert" id={props.id + '-error'}>
-          {props.name} = {text.trim() === '' ? '(empty)' : text}: must be a number in [{props.lo}, {props.hi}]
+          {props.name} = {text.trim() === '' ? '(empty)' : text}: must be a number in [{bound(props.lo)}, {bound(props.hi)}]
         </span>
       ) : null}
     </span>

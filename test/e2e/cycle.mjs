@@ -64,6 +64,20 @@ export const cycleTests = [
       const tt = Number(await page.getAttribute('#cycle-transition', 'data-value')) * 1e3;
       ok(Math.abs(tt - tSwitch) < dx, `planner's transition time ${tt} ms vs ${tSwitch} ms`);
       ok(y.slice(0, i).every((v) => v < 90) && y.slice(i).every((v) => v > 90), 'φs should stay on one side of 90° before and after');
+      // Flagged intervals: listed and shaded; the filling threshold is the user's, a bad one is named and not used.
+      ok(/not adiabatic/.test(await page.textContent('#cycle-intervals')), 'the jump at transition is not adiabatic');
+      const rects = () => page.evaluate(() => document.getElementById('plot-cycle-phis').layout.shapes.filter((r) => r.type === 'rect').length);
+      const r0 = await rects();
+      ok(r0 >= 1, 'the flagged interval is shaded');
+      await page.fill('#cycle-filling-limit', '-1');
+      const ferr = await page.textContent('#cycle-filling-limit-error');
+      ok(/filling limit = -1: must be a number in \[1e-6, 10\]/.test(ferr), `limit error: ${ferr}`);
+      await page.fill('#cycle-filling-limit', '0.001');
+      await page.waitForFunction(() => /bucket too small/.test(document.getElementById('cycle-intervals').textContent));
+      await page.waitForFunction((n) => document.getElementById('plot-cycle-phis').layout.shapes.filter((r) => r.type === 'rect').length > n, r0, { timeout: 10000 });
+      await page.screenshot({ path: ARTIFACTS + 'cycle-flagged.png' });
+      await page.fill('#cycle-filling-limit', '0.8');
+      await page.waitForFunction(() => !/bucket too small/.test(document.getElementById('cycle-intervals').textContent));
       // The slope switch offered at the planner's transition time, in the editor's ms.
       await page.selectOption('#f-rf-slope', 'auto');
       await page.selectOption('#f-rf-slope', 'timed');
