@@ -52,6 +52,8 @@ function firstIssues(all: SetupIssue[]): SetupIssue[] {
   return [...all.slice(0, MAX_ISSUES), { ...next, message: `${next.message} (and ${all.length - MAX_ISSUES - 1} more problems not listed)` }];
 }
 
+const MAX_HARMONIC_RATIO = 1000;
+
 // Combinations the schema cannot express field by field.
 function crossChecks(s: Setup): SetupIssue[] {
   const out: SetupIssue[] = [];
@@ -64,7 +66,14 @@ function crossChecks(s: Setup): SetupIssue[] {
   if (s.energy.ramp.kind === 'bDot' && s.ring.bendingRadius === undefined)
     out.push({ path: 'ring.bendingRadius', value: undefined, message: 'a B-field ramp (bDot) needs the bending radius' });
   const h = s.rf.systems[0].harmonic, M = s.intensity?.bunches ?? 1;
+  // The RF wave is sampled 50 times per period of the highest harmonic on every turn: bound the ratio.
+  s.rf.systems.forEach((r, k) => {
+    if (r.harmonic > MAX_HARMONIC_RATIO * h)
+      out.push({ path: `rf.systems[${k}].harmonic`, value: r.harmonic, message: `must be at most ${MAX_HARMONIC_RATIO} × the main harmonic h = ${h}, i.e. in [${h}, ${MAX_HARMONIC_RATIO * h}]` });
+  });
   if (h % M !== 0) out.push({ path: 'intensity.bunches', value: M, message: `must divide the main harmonic number h = ${h} (equally spaced bunches)` });
+  if (s.radiation && s.radiation.I2 === undefined && s.ring.bendingRadius === undefined)
+    out.push({ path: 'radiation.I2', value: undefined, message: 'give radiation.I2 and radiation.I3, or ring.bendingRadius (isomagnetic ring)' });
   if (!out.length) out.push(...rampErrors(s));
   return out;
 }
