@@ -81,8 +81,31 @@ export const useApp = create<AppState>(() => ({
 /** Replace the draft; if it validates it becomes the running setup, else the last valid one keeps running. */
 export function setDraft(draft: unknown): void {
   const r = parseSetup(draft);
-  if (r.ok) useApp.setState({ draft, valid: r.setup, issues: [] });
-  else useApp.setState({ draft, issues: r.errors });
+  const mem = r.ok ? memoryIssue(r.setup.beam.particles) : null;
+  if (r.ok && !mem) useApp.setState({ draft, valid: r.setup, issues: [] });
+  else useApp.setState({ draft, issues: r.ok ? [mem!] : r.errors });
+}
+
+/** Memory the browser may spend on one run [bytes]: well inside what a tab gets on an ordinary laptop (common practice). */
+export const MEMORY_BUDGET = 512 * 2 ** 20;
+// Per particle: dt and dE as float64 (16 bytes) in two column sets while the worker hands the beam to its kernel.
+const BYTES_PER_PARTICLE = 2 * 16;
+// Fixed part: histogram (160 × 120 float32), a frame's profile and 300 waterfall rows of up to 4096 bins, slack.
+const FIXED_BYTES = 160 * 120 * 4 + 301 * 4096 * 8 + 2 ** 20;
+
+/** Estimated browser memory of a run with n macroparticles [bytes]. */
+export function runBytes(n: number): number {
+  return FIXED_BYTES + BYTES_PER_PARTICLE * n;
+}
+
+/** Most macroparticles within the memory budget. */
+export const MAX_BROWSER_PARTICLES = Math.floor((MEMORY_BUDGET - FIXED_BYTES) / BYTES_PER_PARTICLE);
+
+/** Refusal of a particle count the browser budget cannot hold (null when it fits). */
+export function memoryIssue(n: number): SetupIssue | null {
+  if (runBytes(n) <= MEMORY_BUDGET) return null;
+  const mb = (b: number) => `${Math.round(b / 2 ** 20)} MB`;
+  return { path: 'beam.particles', value: n, message: `needs about ${mb(runBytes(n))} in the browser, over its ${mb(MEMORY_BUDGET)} budget: must be an integer in [1, ${MAX_BROWSER_PARTICLES}] here (the command line takes up to 2e7)` };
 }
 
 /** Edit one field of the draft. */
@@ -92,6 +115,8 @@ export function editField(path: readonly PathSeg[], value: unknown): void {
 
 /** Load a whole setup (preset, file or link): the beam is regenerated. */
 export function loadSetup(setup: Setup, notice: Notice | null = null): void {
+  const mem = memoryIssue(setup.beam.particles);
+  if (mem) return void useApp.setState({ draft: setup, issues: [mem], notice }); // shown in the editor; the last valid setup keeps running
   useApp.setState((s) => ({ draft: setup, valid: setup, issues: [], notice, beamEpoch: s.beamEpoch + 1 }));
 }
 

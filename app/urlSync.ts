@@ -1,15 +1,17 @@
 // Keeps the URL fragment equal to the running setup, and opens the setup a link carries. A link that cannot
 // be opened says why and falls back to the default setup, so the page always works.
+import { KEY_UNREADABLE, readAutosave, startAutosave } from './autosave.ts';
 import { decodeFragment, encodeSetup } from './urlCodec.ts';
 import { defaultPreset } from './presets.ts';
-import { loadSetup, useApp } from './store.ts';
+import { loadSetup, setDraft, useApp } from './store.ts';
 
 // Wait this long after the last edit before rewriting the address bar.
 const WRITE_DELAY_MS = 250;
 
-/** Load the setup of the current location's fragment (or the default one). */
+/** Load the setup of the current location's fragment; without one, the autosave of this browser (or the default). */
 export function openFromLocation(): void {
   const r = decodeFragment(location.hash);
+  if (r.kind === 'none') return restoreAutosave();
   if (r.kind === 'ok') {
     const note = r.migratedFrom !== undefined ? { kind: 'info' as const, title: `This link used setup version ${r.migratedFrom}; it was brought up to date.`, lines: [] } : null;
     loadSetup(r.setup, note);
@@ -18,8 +20,23 @@ export function openFromLocation(): void {
   }
 }
 
-/** Write the fragment whenever the valid setup changes; follow pasted links. */
+// The last valid setup and the draft as autosaved; a broken autosave is reported and the default opens.
+function restoreAutosave(): void {
+  const a = readAutosave();
+  if (a.kind === 'ok') {
+    loadSetup(a.valid, { kind: 'info', title: `Restored the setup autosaved in this browser at ${new Date(a.savedAt).toLocaleString()}.`, lines: [] });
+    if (JSON.stringify(a.draft) !== JSON.stringify(a.valid)) setDraft(a.draft); // unfinished edits come back with their problems
+  } else if (a.kind === 'error')
+    loadSetup(defaultPreset().setup, {
+      kind: 'error',
+      title: `The autosaved setup could not be read and was ignored (kept in localStorage as "${KEY_UNREADABLE}"); the default setup is shown.`,
+      lines: a.lines,
+    });
+}
+
+/** Write the fragment whenever the valid setup changes; follow pasted links; autosave to this browser. */
 export function startUrlSync(): void {
+  startAutosave();
   let timer = 0;
   const write = () => {
     const frag = '#' + encodeSetup(useApp.getState().valid);

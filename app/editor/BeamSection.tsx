@@ -1,6 +1,6 @@
 // Editor groups "Beam" (distribution, size, macroparticles, offsets, seed) and "Run" (drift model, aperture,
 // turns, diagnostics). A change here regenerates the beam; other groups apply to the running beam.
-import { editField, useApp } from '../store.ts';
+import { editField, MAX_BROWSER_PARTICLES, MEMORY_BUDGET, runBytes, useApp } from '../store.ts';
 import { getIn } from '../paths.ts';
 import { NumberField, SelectField } from './Field.tsx';
 import { Section } from './Section.tsx';
@@ -16,6 +16,20 @@ function newDistribution(kind: string): unknown {
   if (kind === 'matched') return { kind, shape: 'parabolic', size: { by: 'emittance', convention: 'contour', value: 0.3 } };
   if (kind === 'unmatched') return { kind, shape: 'gaussian', rmsLength: 20e-9, mismatch: 1 };
   return { kind, rmsEnergySpread: 100e3 };
+}
+
+const MB = 2 ** 20;
+
+/** The browser memory a run with the typed macroparticle count will take, shown before it starts. */
+function MemoryEstimate() {
+  const n = useApp((s) => getIn(s.draft, ['beam', 'particles']));
+  if (typeof n !== 'number' || !(n >= 1)) return null;
+  const over = runBytes(n) > MEMORY_BUDGET;
+  return (
+    <p className={'field-note' + (over ? ' over' : '')} id="memory-estimate" data-bytes={runBytes(n)} title={`at most ${MAX_BROWSER_PARTICLES} macroparticles in the browser`}>
+      about {(runBytes(n) / MB).toPrecision(3)} MB in the browser (budget {MEMORY_BUDGET / MB} MB)
+    </p>
+  );
 }
 
 /** Beam distribution and macroparticles. */
@@ -54,6 +68,7 @@ export function BeamSection() {
       ) : null}
       {kind === 'coasting' ? <NumberField path={[...D, 'rmsEnergySpread']} label="Rms energy spread" unit="keV" toDisplay={1e-3} /> : null}
       <NumberField path={['beam', 'particles']} label="Macroparticles" />
+      <MemoryEstimate />
       <NumberField path={['beam', 'seed']} label="Random seed" />
       <NumberField path={['beam', 'timeOffset']} label="Time offset (late +)" unit="ns" toDisplay={1e9} />
       <NumberField path={['beam', 'energyOffset']} label="Energy offset" unit="MeV" toDisplay={1e-6} />

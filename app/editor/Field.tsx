@@ -1,7 +1,9 @@
 // Editor inputs bound to a path of the draft setup. A number shows in its display unit and is stored in the
 // schema unit; text that is not a number is stored as typed, so validation names the exact value given.
 import { useEffect, useRef, useState, type ReactNode } from 'react';
-import { formatIssue } from '../../core/setup/validate.ts';
+import type { Setup } from '../../core/setup/schema.ts';
+import { formatIssue, type SetupIssue } from '../../core/setup/validate.ts';
+import { setupWarnings } from '../../core/setup/warnings.ts';
 import { editField, useApp } from '../store.ts';
 import { getIn, pathKey, type PathSeg } from '../paths.ts';
 
@@ -24,7 +26,22 @@ export function useIssues(path: readonly PathSeg[]): string[] {
   return run && run.path === key && lines.length === 0 ? [run.text] : lines;
 }
 
-function Row(props: { id: string; label: string; unit?: string; errors: string[]; children: ReactNode; hint?: string }) {
+// Warnings of the running setup, computed once per setup object.
+let warned: { setup: Setup; list: SetupIssue[] } | null = null;
+function warningsOf(setup: Setup): SetupIssue[] {
+  if (warned?.setup !== setup) warned = { setup, list: setupWarnings(setup) };
+  return warned.list;
+}
+
+/** Warnings of the running setup at exactly this path (it runs, but the user should know), one line each. */
+export function useWarnings(path: readonly PathSeg[]): string[] {
+  const key = pathKey(path);
+  const valid = useApp((s) => s.valid);
+  return warningsOf(valid).filter((w) => w.path === key).map((w) => `warning: ${formatIssue(w)}`);
+}
+
+function Row(props: { id: string; path: readonly PathSeg[]; label: string; unit?: string; errors: string[]; children: ReactNode; hint?: string }) {
+  const warnings = useWarnings(props.path);
   return (
     <div className={'field' + (props.errors.length ? ' invalid' : '')} title={props.hint}>
       <label htmlFor={props.id}>{props.label}</label>
@@ -37,6 +54,11 @@ function Row(props: { id: string; label: string; unit?: string; errors: string[]
           {e}
         </div>
       ))}
+      {props.errors.length === 0 && warnings.length ? (
+        <div className="field-note" role="status" id={props.id + '-warning'} style={{ gridColumn: '1 / -1', color: '#8a4b00' }}>
+          {warnings.join(' ')}
+        </div>
+      ) : null}
     </div>
   );
 }
@@ -65,7 +87,7 @@ export function NumberField(props: { path: PathSeg[]; label: string; unit?: stri
     editField(props.path, v); // undefined removes an optional field
   };
   return (
-    <Row id={id} label={props.label} unit={props.unit} errors={errors} hint={props.hint}>
+    <Row id={id} path={props.path} label={props.label} unit={props.unit} errors={errors} hint={props.hint}>
       <input
         id={id}
         type="text"
@@ -92,7 +114,7 @@ export function SelectField(props: {
   const value = useApp((s) => getIn(s.draft, props.path));
   const errors = useIssues(props.path);
   return (
-    <Row id={id} label={props.label} errors={errors} hint={props.hint}>
+    <Row id={id} path={props.path} label={props.label} errors={errors} hint={props.hint}>
       <select id={id} value={String(value ?? '')} onChange={(e) => (props.onPick ? props.onPick(e.target.value) : editField(props.path, e.target.value))}>
         {props.options.map(([v, l]) => (
           <option key={v} value={v}>
