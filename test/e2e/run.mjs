@@ -9,6 +9,7 @@ import { openApp, stepTo, summary, traces, waitReady } from './page.mjs';
 import { cycleTests } from './cycle.mjs';
 import { faultTests } from './faults.mjs';
 import { perfTests } from './perf.mjs';
+import { hardeningTests } from './hardening.mjs';
 
 const ROOT = new URL('../../', import.meta.url).pathname;
 const ARTIFACTS = ROOT + 'test-artifacts/';
@@ -241,6 +242,7 @@ const tests = [
   ...cycleTests,
   ...faultTests,
   ...perfTests,
+  ...hardeningTests,
 ];
 
 const server = await serve(ROOT + 'dist');
