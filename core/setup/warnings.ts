@@ -17,12 +17,18 @@ const NONLINEAR_FRACTION = 0.3;
 const SIGMAS = 3;
 // Rate ramps are followed in batches that change p·c by at most this fraction (timing error of the same order).
 const BATCH_CHANGE = 0.01;
+// Slowest synchronous particle accepted: closer to rest, E − m underflows against m in double precision for small
+// energy steps (a proton at p·c = 1 eV has T = 5e-10 eV) and the revolution period grows without bound.
+const MIN_BETA = 1e-3;
 
-/** Impossible energy programs: every program value must give p·c > 0, and a falling rate ramp must not reach p·c = 0 within run.turns. */
+/** Impossible energies: the start must not leave the particle practically at rest, every program value must give p·c > 0, and a falling rate ramp must not reach p·c = 0 within run.turns. */
 export function rampErrors(s: Setup): SetupIssue[] {
   const p = makeParticle(s.particle);
   const r = s.energy.ramp;
   const out: SetupIssue[] = [];
+  const k0 = startKinematics(s, p);
+  if (!(k0.beta >= MIN_BETA))
+    return [{ path: 'energy.start.value', value: s.energy.start.value, message: `leaves the ${p.name} practically at rest (β = ${fmtNum(k0.beta)}); the tracker needs β ≥ ${fmtNum(MIN_BETA)}, i.e. a kinetic energy of at least ${fmtNum(minKinetic(p.mass))} eV` }];
   const floor = (q: string) => (q === 'total' ? p.mass : 0);
   const below = (q: string) => (q === 'total' ? `the rest energy ${fmtNum(p.mass)} eV` : '0');
   if (r.kind === 'table') {
@@ -41,6 +47,12 @@ export function rampErrors(s: Setup): SetupIssue[] {
     if (turns < s.run.turns) out.push(stopIssue(r.value, r.kind === 'bDot' ? 'T/s' : 'eV/s', turns, s, p));
   }
   return out;
+}
+
+// Kinetic energy [eV] at β = MIN_BETA: T = m(γ − 1), written without cancellation.
+function minKinetic(m: number): number {
+  const b2 = MIN_BETA * MIN_BETA;
+  return (m * b2) / (Math.sqrt(1 - b2) * (1 + Math.sqrt(1 - b2)));
 }
 
 function stopIssue(value: number, unit: string, turns: number, s: Setup, p: Particle): SetupIssue {
