@@ -117,7 +117,7 @@ async function separatrixMs(page, field, values) {
         ch.port2.postMessage(null);
       });
     }, [field, v]));
-    await page.waitForTimeout(150);
+    await page.waitForTimeout(1500); // each edit redraws several plots (~250 ms of Plotly): start the next on an idle page
   }
   const med = (i) => times.map((t) => t[i]).sort((a, b) => a - b)[Math.floor(times.length / 2)];
   return { numbersMs: med(0), separatrixMs: med(1) };
