@@ -16,7 +16,22 @@ export function openFromLocation(): void {
     const note = r.migratedFrom !== undefined ? { kind: 'info' as const, title: `This link used setup version ${r.migratedFrom}; it was brought up to date.`, lines: [] } : null;
     loadSetup(r.setup, note);
   } else if (r.kind === 'error') {
-    loadSetup(defaultPreset().setup, { kind: 'error', title: 'The link could not be opened; the default setup is shown instead.', lines: r.lines });
+    const kept = keepUnreadableLink(location.hash);
+    const a = readAutosave(); // the user's last work, rather than the default, when there is one
+    const shown = a.kind === 'ok' ? 'the setup autosaved in this browser' : 'the default setup';
+    loadSetup(a.kind === 'ok' ? a.valid : defaultPreset().setup, { kind: 'error', title: `The link could not be opened; ${shown} is shown instead${kept}.`, lines: r.lines });
+  }
+}
+
+/** Where a link that could not be opened is kept (the address bar is then rewritten), so it is not lost. */
+export const KEY_UNREADABLE_LINK = 'phasewell.link.unreadable';
+
+function keepUnreadableLink(hash: string): string {
+  try {
+    localStorage.setItem(KEY_UNREADABLE_LINK, hash);
+    return ` (the link is kept in localStorage as "${KEY_UNREADABLE_LINK}")`;
+  } catch {
+    return '';
   }
 }
 

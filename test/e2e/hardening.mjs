@@ -66,6 +66,13 @@ export const hardeningTests = [
       ok((await page.inputValue('#f-ring-circumference')) === 'abc', 'the draft value came back');
       ok(/ring\.circumference = "abc"/.test(await text(page, '#f-ring-circumference-error')), 'with its problem next to it');
       ok(page.url().includes('#s1='), 'the link of the restored setup is in the address bar');
+      // A broken link opens the autosaved work (not the default) and the link itself is kept.
+      await page.goto(url + 'index.html#s1=broken-link-data');
+      await waitReady(page);
+      const n = await text(page, '#notice.error');
+      ok(n.includes('the setup autosaved in this browser is shown instead'), `notice: ${n}`);
+      ok((await page.inputValue('#f-rf-systems-0-voltage')) === '24', 'the autosaved setup is shown');
+      ok((await page.evaluate(() => localStorage.getItem('phasewell.link.unreadable'))) === '#s1=broken-link-data', 'the broken link is kept');
     },
   },
   {
