@@ -2,10 +2,11 @@
 // error can name the field, the value and the range (see format.ts), and the docs can list them.
 import { z } from 'zod';
 
-// No code generation: zod would otherwise probe `Function('')` when the first object schema is built, which the
-// app's Content Security Policy refuses (a reported violation). Set here, the module every schema piece imports
-// first. Measured: validation is as fast without it.
-z.config({ jitless: true });
+// No code generation on a page: zod would otherwise probe `Function('')` when the first object schema is built,
+// which the app's Content Security Policy refuses (a reported violation). Set here, the module every schema piece
+// imports first. Node keeps it: there the jitless path overflows the stack on ~1e5 bad table points, which
+// parseSetup then reports as one issue instead of listing the first 50.
+z.config({ jitless: 'document' in globalThis });
 
 export interface FieldInfo {
   unit: string;

@@ -26,7 +26,13 @@ export function formatIssue(i: SetupIssue): string {
 export function parseSetup(input: unknown): ParseResult {
   const m = migrate(input);
   if (!m.ok) return { ok: false, errors: [m.error] };
-  const r = setupSchema.safeParse(m.doc);
+  let r: ReturnType<typeof setupSchema.safeParse>;
+  try {
+    r = setupSchema.safeParse(m.doc);
+  } catch (e) {
+    // The validator itself can run out of stack on pathological input (e.g. a million bad list items).
+    return { ok: false, errors: [{ path: '', value: undefined, message: `the document is too large or too deeply nested to check (${(e as Error).message})` }] };
+  }
   if (!r.success) return { ok: false, errors: firstIssues(r.error.issues.map((i) => toIssue(i, m.doc))) };
   const extra = crossChecks(r.data);
   if (extra.length) return { ok: false, errors: extra };
