@@ -59,6 +59,8 @@ function firstIssues(all: SetupIssue[]): SetupIssue[] {
 }
 
 const MAX_HARMONIC_RATIO = 1000;
+// Narrowest line-density bin accepted [s]: far below any bunch this tool tracks.
+const MIN_BIN_S = 1e-18;
 
 // Combinations the schema cannot express field by field.
 function crossChecks(s: Setup): SetupIssue[] {
@@ -78,6 +80,9 @@ function crossChecks(s: Setup): SetupIssue[] {
       out.push({ path: `rf.systems[${k}].harmonic`, value: r.harmonic, message: `must be at most ${MAX_HARMONIC_RATIO} × the main harmonic h = ${h}, i.e. in [${h}, ${MAX_HARMONIC_RATIO * h}]` });
   });
   if (h % M !== 0) out.push({ path: 'intensity.bunches', value: M, message: `must divide the main harmonic number h = ${h} (equally spaced bunches)` });
+  const w = s.collective.window, bins = s.collective.bins;
+  if (w > 0 && !(w / bins >= MIN_BIN_S)) // a denormal window gave zero-width bins and a throw at tracking
+    out.push({ path: 'collective.window', value: w, message: `gives bins of ${fmtNum(w / bins)} s: give 0 (automatic) or a window in [${fmtNum(MIN_BIN_S * bins)}, 1] s for ${bins} bins` });
   if (s.radiation && s.radiation.I2 === undefined && s.ring.bendingRadius === undefined)
     out.push({ path: 'radiation.I2', value: undefined, message: 'give radiation.I2 and radiation.I3, or ring.bendingRadius (isomagnetic ring)' });
   if (!out.length) out.push(...rampErrors(s));

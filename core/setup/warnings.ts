@@ -6,6 +6,7 @@ import { C_LIGHT } from '../constants.ts';
 import { fromMomentum } from '../kinematics.ts';
 import { MachineStepper, startKinematics } from '../machine.ts';
 import { makeParticle, type Particle } from '../particle.ts';
+import { pcOf, QUANTITY_UNIT, valueOfPc } from '../program/quantity.ts';
 import { linearlyMatchedSpread } from '../beam/unmatched.ts';
 import { fmtNum } from './fields.ts';
 import type { Setup } from './schema.ts';
@@ -21,32 +22,31 @@ const BATCH_CHANGE = 0.01;
 // energy steps (a proton at p·c = 1 eV has T = 5e-10 eV) and the revolution period grows without bound.
 const MIN_BETA = 1e-3;
 
-/** Impossible energies: the start must not leave the particle practically at rest, every program value must give p·c > 0, and a falling rate ramp must not reach p·c = 0 within run.turns. */
+/** Impossible energies: the start, every program value and a falling ramp within run.turns must keep the particle moving (β ≥ 1e-3). */
 export function rampErrors(s: Setup): SetupIssue[] {
   const p = makeParticle(s.particle);
   const r = s.energy.ramp;
-  const out: SetupIssue[] = [];
   const k0 = startKinematics(s, p);
+  const pcMin = (p.mass * MIN_BETA) / Math.sqrt(1 - MIN_BETA * MIN_BETA); // p·c at β = MIN_BETA
   if (!(k0.beta >= MIN_BETA))
     return [{ path: 'energy.start.value', value: s.energy.start.value, message: `leaves the ${p.name} practically at rest (β = ${fmtNum(k0.beta)}); the tracker needs β ≥ ${fmtNum(MIN_BETA)}, i.e. a kinetic energy of at least ${fmtNum(minKinetic(p.mass))} eV` }];
-  const floor = (q: string) => (q === 'total' ? p.mass : 0);
-  const below = (q: string) => (q === 'total' ? `the rest energy ${fmtNum(p.mass)} eV` : '0');
-  if (r.kind === 'table') {
-    const k = r.points.findIndex(([, v]) => v <= floor(r.quantity));
-    if (k >= 0)
-      out.push({ path: `energy.ramp.points[${k}][1]`, value: r.points[k][1], message: `a ${r.quantity} program value must exceed ${below(r.quantity)} (the particle would stop)` });
-  } else if (r.kind === 'smooth' && r.target <= floor(r.quantity)) {
-    out.push({ path: 'energy.ramp.target', value: r.target, message: `a ${r.quantity} target must exceed ${below(r.quantity)} (the particle would stop)` });
+  if (r.kind === 'table' || r.kind === 'smooth') {
+    const rho = s.ring.bendingRadius;
+    const slow = (v: number) => !(pcOf(r.quantity, v, p, rho) >= pcMin);
+    const least = `more than ${fmtNum(valueOfPc(r.quantity, pcMin, p, rho))} ${QUANTITY_UNIT[r.quantity]}`;
+    const k = r.kind === 'table' ? r.points.findIndex(([, v]) => slow(v)) : slow(r.target) ? 0 : -1;
+    if (k >= 0 && r.kind === 'table')
+      return [{ path: `energy.ramp.points[${k}][1]`, value: r.points[k][1], message: `a ${r.quantity} program value that leaves the ${p.name} practically at rest (β < ${fmtNum(MIN_BETA)}); give ${least}` }];
+    if (k >= 0) return [{ path: 'energy.ramp.target', value: r.kind === 'smooth' ? r.target : undefined, message: `a ${r.quantity} target that leaves the ${p.name} practically at rest (β < ${fmtNum(MIN_BETA)}); give ${least}` }];
   } else if (r.kind === 'gainPerTurn' && r.value < 0) {
-    const E0 = startKinematics(s, p).E;
-    const turns = Math.floor((E0 - p.mass) / -r.value);
-    if (turns < s.run.turns) out.push(stopIssue(r.value, 'eV', turns, s, p));
+    const turns = Math.floor((k0.E - Math.hypot(pcMin, p.mass)) / -r.value);
+    if (turns < s.run.turns) return [stopIssue(r.value, 'eV', turns, s, p)];
   } else if ((r.kind === 'momentumRate' || r.kind === 'bDot') && r.value < 0) {
     const rate = r.kind === 'momentumRate' ? r.value : Math.abs(p.Z) * C_LIGHT * (s.ring.bendingRadius ?? 0) * r.value; // d(pc)/dt [eV/s]
-    const turns = turnsToStop(startKinematics(s, p).pc, rate, s.ring.circumference, p.mass, s.run.turns);
-    if (turns < s.run.turns) out.push(stopIssue(r.value, r.kind === 'bDot' ? 'T/s' : 'eV/s', turns, s, p));
+    const turns = turnsToStop(k0.pc, pcMin, rate, s.ring.circumference, p.mass, s.run.turns);
+    if (turns < s.run.turns) return [stopIssue(r.value, r.kind === 'bDot' ? 'T/s' : 'eV/s', turns, s, p)];
   }
-  return out;
+  return [];
 }
 
 // Kinetic energy [eV] at β = MIN_BETA: T = m(γ − 1), written without cancellation.
@@ -58,13 +58,13 @@ function minKinetic(m: number): number {
 function stopIssue(value: number, unit: string, turns: number, s: Setup, p: Particle): SetupIssue {
   return {
     path: 'energy.ramp.value', value,
-    message: `this ${unit} ramp brings the ${p.name} to rest (p·c = 0, energy at its rest energy ${fmtNum(p.mass)} eV) after about ${turns} turns, ` +
+    message: `this ${unit} ramp brings the ${p.name} practically to rest (β < ${fmtNum(MIN_BETA)}, energy near its rest energy ${fmtNum(p.mass)} eV) after about ${turns} turns, ` +
       `within run.turns = ${s.run.turns}; use a smaller rate or at most ${Math.max(1, turns - 1)} turns`,
   };
 }
 
-// Turns until p·c reaches 0 under a constant negative rate (eV/s), or `limit` if it does not within `limit` turns.
-function turnsToStop(pc0: number, rate: number, C: number, mass: number, limit: number): number {
+// Turns until p·c falls below pcMin under a constant negative rate (eV/s), or `limit` if not within `limit` turns.
+function turnsToStop(pc0: number, pcMin: number, rate: number, C: number, mass: number, limit: number): number {
   let pc = pc0, n = 0;
   while (n < limit) {
     const T0 = C / (fromMomentum(pc, mass).beta * C_LIGHT);
@@ -72,7 +72,7 @@ function turnsToStop(pc0: number, rate: number, C: number, mass: number, limit: 
     const k = Math.min(limit - n, Math.max(1, Math.floor((BATCH_CHANGE * pc) / -step)));
     pc += k * step;
     n += k;
-    if (!(pc > 0)) return n;
+    if (!(pc >= pcMin)) return n;
   }
   return limit;
 }
