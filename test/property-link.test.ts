@@ -36,7 +36,7 @@ function check(hash: string): LinkResult {
 describe('decodeFragment on hostile links', () => {
   it('random text after "#", with and without the s1= prefix', () => {
     const text = fc.oneof(fc.string({ maxLength: 200 }), fc.string({ unit: fc.constantFrom(...B64), maxLength: 400 }).map((s) => 's1=' + s), fc.string({ unit: 'binary', maxLength: 60 }));
-    fc.assert(fc.property(text, (t) => { tally('random text'); check('#' + t); }), { numRuns: 8_000 });
+    fc.assert(fc.property(text, (t) => { tally('random text'); check('#' + t); }), { numRuns: 9_000 });
   });
 
   it('valid links with characters replaced, inserted or cut', () => {
@@ -64,7 +64,7 @@ describe('decodeFragment on hostile links', () => {
   it('well-formed links to mutated setups', () => {
     // Deep nests cannot be written as JSON at all (JSON.stringify overflows), so they never make a link.
     const linkable = mutatedExample.filter(({ kinds }) => !kinds.includes('deep'));
-    fc.assert(fc.property(linkable, ({ doc }) => { tally('links to mutated setups'); check('#' + encodeSetup(doc)); }), { numRuns: 3_000 });
+    fc.assert(fc.property(linkable, ({ doc }) => { tally('links to mutated setups'); check('#' + encodeSetup(doc)); }), { numRuns: 2_000 });
   });
 
   it('fixed cases: other prefixes and versions, a decompression bomb, an over-long fragment', () => {
