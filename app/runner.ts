@@ -9,7 +9,7 @@ import { TrackPool } from '../workers/pool.ts';
 import { bucketAt, type RunPoint } from './derived.ts';
 import { useApp, type AppState } from './store.ts';
 import { chooseWindow, needsRefit } from './viewWindow.ts';
-import { drawsDue, holdDrawsWhile, resumeDraws } from './views/schedule.ts';
+import { drawsDue, holdDrawsWhile, resumeDraws, slowestDraw } from './views/schedule.ts';
 
 /** Particle coordinates come back as points (not only a histogram) up to this count: SVG points stay a short draw. */
 export const POINTS_MAX = 5_000;
@@ -23,9 +23,12 @@ let api: TrackPool | null = null;
 let gen = 0;
 let busy = false;
 let lastCall = 0;
-// One core only: page and worker take turns. With two or more, the workers track while the page draws (measured on
-// 2 loaded cores with two workers: more pictures per second and no more long tasks than taking turns).
+// Page and workers take turns (no drawing while a call is out, no call while draws are due) on one core, or when
+// drawing has become slow (the cores are busy elsewhere). Otherwise the workers track while the page draws (on 2
+// loaded cores with two workers: more pictures per second than taking turns, and no more long tasks).
 let holdForDraws = false;
+// A plot drawing for longer than this [ms] means the page is short of CPU: then page and workers take turns.
+const SLOW_DRAW_MS = 35;
 const stats = { turns: 0, trackMs: 0, frames: 0 };
 // Failures in the last RESTART_WINDOW_MS; past RESTART_MAX the runner stops restarting and shows the error.
 let failures: number[] = [];
@@ -220,7 +223,7 @@ function accept(f: RunFrame, fresh: boolean): void {
   stats.turns += f.turnsDone;
   stats.trackMs += f.trackMs;
   stats.frames++;
-  holdForDraws = (navigator.hardwareConcurrency || 1) < 2;
+  holdForDraws = (navigator.hardwareConcurrency || 1) < 2 || slowestDraw() > SLOW_DRAW_MS;
   const log = fresh ? f.rows : s.log.concat(f.rows);
   let profiles = fresh ? f.profiles : s.profiles.concat(f.profiles);
   if (profiles.length > WATERFALL_ROWS) profiles = profiles.slice(profiles.length - WATERFALL_ROWS);

@@ -29,6 +29,13 @@ export function holdDrawsWhile(h: () => boolean): void {
   held = h;
 }
 
+/** The longest last drawing time of any plot [ms] (how hard the page is pressed for its core). */
+export function slowestDraw(): number {
+  let m = 0;
+  for (const c of lastCost.values()) if (c > m) m = c;
+  return m;
+}
+
 /** Start drawing what waited while drawing was held. */
 export function resumeDraws(): void {
   if (pending.size) queue();
