@@ -1,5 +1,5 @@
-// Physics checks of a schema-valid setup. `rampErrors`: energy programs that would take the synchronous particle
-// to zero momentum (below its rest energy): impossible, so parseSetup refuses them. `setupWarnings`: setups that
+// Physics checks of a schema-valid setup. `rampErrors`: a start energy or an energy program that leaves the
+// synchronous particle practically at rest (β < 1e-3), at turn 0 or within run.turns: parseSetup refuses them. `setupWarnings`: setups that
 // run but may not mean what the user thinks (linear drift near transition, no bucket at turn 0, odd harmonics).
 // Units: energies and p·c in eV, times in s, lengths in m, fields in T.
 import { C_LIGHT } from '../constants.ts';
