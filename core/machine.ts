@@ -11,7 +11,7 @@ import { makeParticle, type Particle } from './particle.ts';
 import { energyLossPerTurn, radiationLattice, type RadiationLattice } from './radiation.ts';
 import type { RfWave } from './rf.ts';
 import type { Setup } from './setup/schema.ts';
-import { solveSyncPhase, stableSlope, type Slope } from './synchronous.ts';
+import { findSyncPhase, solveSyncPhase, stableSlope, type Slope } from './synchronous.ts';
 import { buildPrograms, fmtEvent, slopeSwitchMessage, type CyclePrograms, type MachineEvent } from './program/machinePrograms.ts';
 
 // RF phases are quoted as the particle sees them (its energy gain), so the sign of the charge is absorbed in the
@@ -117,8 +117,7 @@ export class MachineStepper {
     const step = this.momentumStep(); // before the clock moves: programs are looked up at time + T0
     s.time += s.T0;
     s.turn += 1;
-    const k = fromMomentum(s.pc + step, s.particle.mass);
-    s.Es = k.E; s.gamma = k.gamma; s.beta = k.beta; s.pc = k.pc; s.T = k.T;
+    setMomentum(s, s.pc + step);
     this.refresh();
   }
 
@@ -138,8 +137,10 @@ export class MachineStepper {
     switch (r.kind) {
       case 'flat':
         return 0;
-      case 'gainPerTurn':
-        return fromTotal(s.Es + r.value, s.particle.mass).pc - s.pc;
+      case 'gainPerTurn': {
+        const E = s.Es + r.value, m = s.particle.mass;
+        return Math.sqrt((E - m) * (E + m)) - s.pc;
+      }
       case 'bDot':
         return Math.abs(s.particle.Z) * C_LIGHT * this.setup.ring.bendingRadius! * r.value * s.T0;
       case 'momentumRate':
@@ -159,17 +160,18 @@ export class MachineStepper {
     s.omegaRf = s.h * s.omega0;
     s.eta0 = eta0(s.compaction, s.gamma);
     s.eta1 = eta1(s.compaction, s.gamma, s.beta);
-    const next = fromMomentum(s.pc + this.momentumStep(), s.particle.mass);
-    s.dEs = next.E - s.Es;
+    s.dEs = Math.hypot(s.pc + this.momentumStep(), s.particle.mass) - s.Es; // no object per turn
     s.U0 = this.radiation ? energyLossPerTurn(s.particle, s.Es, this.radiation) : 0;
     (s.wave as { dEs: number }).dEs = s.dEs + s.U0; // synchronous condition ZΣV sin φ_k = ΔE_s + U0 (PHYSICS.md §4, §11)
     this.followRfPrograms();
     const slope0 = s.slope, phi0 = s.phiS, had = s.noBucket === null;
     const want = this.setup.rf.slope;
     s.slope = want === 'auto' ? stableSlope(s.eta0) : want === 'timed' ? (s.time < this.setup.rf.switchTime! ? 'rising' : 'falling') : want;
-    const sol = solveSyncPhase(s.wave, s.slope);
-    s.phiS = sol.ok ? sol.phiS : NaN;
-    s.noBucket = sol.ok ? null : sol.reason;
+    s.phiS = findSyncPhase(s.wave, s.slope);
+    if (Number.isNaN(s.phiS)) {
+      const sol = solveSyncPhase(s.wave, s.slope); // only to word the reason (rare)
+      s.noBucket = sol.ok ? null : sol.reason;
+    } else s.noBucket = null;
     if (!this.fresh && (slope0 !== s.slope || had !== (s.noBucket === null))) this.tell(slope0, phi0, had);
     this.fresh = false;
     for (const r of s.rf) r.phi = (r.h / s.h) * s.phiS + r.offset;
@@ -201,6 +203,16 @@ export class MachineStepper {
     else if (!had && s.noBucket === null)
       s.events.push({ turn: s.turn, time: s.time, kind: 'bucketRegained', message: `${at}: the bucket is back, φs = ${fmtEvent(s.phiS / DEG)}°` });
   }
+}
+
+// Synchronous kinematics from p·c, written in place (no object per turn).
+function setMomentum(s: MachineState, pc: number): void {
+  const m = s.particle.mass;
+  s.pc = pc;
+  s.Es = Math.hypot(pc, m);
+  s.gamma = s.Es / m;
+  s.beta = pc / s.Es;
+  s.T = s.Es - m;
 }
 
 /** Machine state at turn 0 of a setup. */

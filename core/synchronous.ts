@@ -52,8 +52,24 @@ export function isStable(w: RfWave, phi: number, slope: Slope): boolean {
  * single-harmonic answer arcsin(ΔE_s/ZV_1) (rising) or π − arcsin(...) (falling).
  */
 export function solveSyncPhase(w: RfWave, slope: Slope): SyncPhase {
+  if (!(w.ZV[0] > 0)) return { ok: false, reason: 'the main RF system has no voltage' };
+  const phiS = findSyncPhase(w, slope);
+  if (Number.isNaN(phiS)) {
+    const peak = maxGain(w);
+    return {
+      ok: false,
+      reason:
+        `no bucket: the synchronous particle needs ${fmt(w.dEs)} eV per turn but the RF gives at most ` +
+        `${fmt(peak)} eV on the ${slope} slope`,
+    };
+  }
+  return { ok: true, phiS, slope };
+}
+
+/** As solveSyncPhase, without allocating: φs in [−π/2, 3π/2), or NaN when there is no stable phase. */
+export function findSyncPhase(w: RfWave, slope: Slope): number {
   const ZV1 = w.ZV[0];
-  if (!(ZV1 > 0)) return { ok: false, reason: 'the main RF system has no voltage' };
+  if (!(ZV1 > 0)) return NaN;
   const x = Math.max(-1, Math.min(1, w.dEs / ZV1));
   const guess = slope === 'rising' ? Math.asin(x) : Math.PI - Math.asin(x);
   const nmax = maxHarmonicRatio(w);
@@ -81,16 +97,7 @@ export function solveSyncPhase(w: RfWave, slope: Slope): SyncPhase {
     aPrev = b;
     fPrev = fb;
   }
-  if (Number.isNaN(best)) {
-    const peak = maxGain(w);
-    return {
-      ok: false,
-      reason:
-        `no bucket: the synchronous particle needs ${fmt(w.dEs)} eV per turn but the RF gives at most ` +
-        `${fmt(peak)} eV on the ${slope} slope`,
-    };
-  }
-  return { ok: true, phiS: wrapSyncPhase(best), slope };
+  return Number.isNaN(best) ? NaN : wrapSyncPhase(best);
 }
 
 /** Largest energy gain Z·ΣV_k sin(n_k φ + Φ_k) over one main period [eV] (sampled, then refined). */
