@@ -1,5 +1,6 @@
 // Minimal browser-test harness: Debian's Chromium through playwright-core, a fresh context per test, and a
 // probe that fails a test on console errors, page errors, failed requests or any request off localhost.
+import { cpus, loadavg } from 'node:os';
 import { chromium } from 'playwright-core';
 
 const LAUNCH_ARGS = ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run',
@@ -40,19 +41,31 @@ export async function runAll(tests, setup) {
   const browser = await launch();
   let passed = 0, failed = 0;
   for (const t of tests) {
-    const t0 = Date.now();
-    const ctx = await browser.newContext({ viewport: { width: 1600, height: 1000 }, deviceScaleFactor: 1 });
-    const p = probe(ctx, setup.origin);
-    try {
-      await t.fn({ ctx, probe: p, ...setup });
-      p.check();
-      passed++;
-      console.log(`ok   ${t.name} (${Date.now() - t0} ms)`);
-    } catch (e) {
-      failed++;
-      console.log(`FAIL ${t.name} (${Date.now() - t0} ms)\n     ${String(e?.stack ?? e).split('\n').slice(0, 6).join('\n     ')}`);
-    } finally {
-      await ctx.close().catch(() => {});
+    // A timing test (loadSensitive) that fails while other programs hold more than every core gets one more
+    // try: a task stretched by waiting for a core says nothing about the app. Both attempts are printed.
+    for (let attempt = 1; ; attempt++) {
+      const t0 = Date.now();
+      const ctx = await browser.newContext({ viewport: { width: 1600, height: 1000 }, deviceScaleFactor: 1 });
+      const p = probe(ctx, setup.origin);
+      try {
+        await t.fn({ ctx, probe: p, ...setup });
+        p.check();
+        passed++;
+        console.log(`ok   ${t.name} (${Date.now() - t0} ms)`);
+        break;
+      } catch (e) {
+        const load = loadavg()[0], cores = cpus().length;
+        const msg = `${t.name} (${Date.now() - t0} ms)\n     ${String(e?.stack ?? e).split('\n').slice(0, 6).join('\n     ')}`;
+        if (t.loadSensitive && attempt === 1 && load > cores) {
+          console.log(`retry ${msg}\n     (load average ${load.toFixed(1)} > ${cores} cores: trying once more)`);
+          continue;
+        }
+        failed++;
+        console.log(`FAIL ${msg}`);
+        break;
+      } finally {
+        await ctx.close().catch(() => {});
+      }
     }
   }
   await browser.close();

@@ -176,6 +176,7 @@ const tests = [
   },
   {
     name: 'no long main-thread task while 1e6 particles are tracked; no request leaves localhost',
+    loadSensitive: true,
     async fn({ ctx, url, probe }) {
       await ctx.addInitScript(() => {
         window.__long = [];
