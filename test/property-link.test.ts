@@ -1,6 +1,7 @@
 // Property: the link decoder (app/urlCodec.ts) never throws. Any fragment (random text, damaged base64url,
 // damaged deflate data, valid links to damaged setups) gives 'none', a valid setup that round-trips through
 // encode/decode unchanged, or error lines that each say what was wrong.
+import './fcSeed.ts';
 import fc from 'fast-check';
 import { deflateSync, strToU8 } from 'fflate';
 import { afterAll, describe, expect, it } from 'vitest';

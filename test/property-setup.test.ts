@@ -1,6 +1,7 @@
 // Property: parseSetup and parseSetupText never throw. Whatever they are given (random JSON, setup-shaped
 // random documents, damaged example files, damaged JSON text), they return a valid setup that re-validates
 // unchanged from its own JSON, or issues that each name a path, the value and a message on one line.
+import './fcSeed.ts';
 import fc from 'fast-check';
 import { afterAll, describe, expect, it } from 'vitest';
 import { parseSetup, parseSetupText } from '../core/setup/validate.ts';

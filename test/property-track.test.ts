@@ -1,6 +1,7 @@
 // Property: random setups drawn from the schema's ranges either fail with a clear error naming a field (at
 // validation or beam generation), or track 100 turns without putting NaN or Infinity into the diagnostics or the
 // plot data (line density, phase-space histogram, separatrix).
+import './fcSeed.ts';
 import fc from 'fast-check';
 import { afterAll, describe, expect, it } from 'vitest';
 import { generateBeam } from '../core/beam/index.ts';

@@ -6,8 +6,7 @@ import type { BucketInfo } from '../bucket.ts';
 import type { Bunch } from '../bunch.ts';
 import type { MachineState } from '../machine.ts';
 import { fractionEmittances } from './ellipse.ts';
-import { insideSeparatrix } from './inside.ts';
-import { fwhmCounts } from './partial.ts';
+import { fwhmCounts, partialMoments } from './partial.ts';
 import { fwhm } from './profile.ts';
 
 /** One turn's reductions of the bunch (alive particles unless stated). */
@@ -40,20 +39,10 @@ let profile = new Float64Array(0); // reused profile buffer
 
 /** All per-turn diagnostics; `bins` sets the line-density resolution of the FWHM; bucket null if none. */
 export function computeDiagnostics(b: Bunch, m: MachineState, bucket: BucketInfo | null, bins: number): TurnDiagnostics {
-  const n = b.n, dt = b.dt, dE = b.dE;
-  let st = 0, se = 0, tMin = Infinity, tMax = -Infinity;
-  for (let i = 0; i < n; i++) {
-    const t = dt[i];
-    st += t; se += dE[i];
-    if (t < tMin) tMin = t;
-    if (t > tMax) tMax = t;
-  }
-  const meanDt = st / n, meanDE = se / n;
-  let vt = 0, ve = 0, c = 0;
-  for (let i = 0; i < n; i++) {
-    const x = dt[i] - meanDt, y = dE[i] - meanDE;
-    vt += x * x; ve += y * y; c += x * y;
-  }
+  const p = partialMoments(b, m, bucket); // one tracker = one part: the same first pass as a split bunch
+  const n = p.n, tMin = p.tMin, tMax = p.tMax;
+  const meanDt = n ? p.meanDt : NaN, meanDE = n ? p.meanDE : NaN;
+  let vt = p.m2t, ve = p.m2e, c = p.m2c;
   vt /= n; ve /= n; c /= n;
   const [emittance90, emittance95] = fractionEmittances(b, { meanDt, meanDE, varDt: vt, varDE: ve, cov: c }, [0.9, 0.95]);
   return {
@@ -63,7 +52,7 @@ export function computeDiagnostics(b: Bunch, m: MachineState, bucket: BucketInfo
     emittance90, emittance95,
     length4Sigma: 4 * Math.sqrt(vt),
     lengthFwhm: profileFwhm(b, tMin, tMax, bins),
-    insideFraction: bucket === null ? NaN : insideSeparatrix(b, m, bucket) / b.total,
+    insideFraction: bucket === null ? NaN : p.inside / b.total,
   };
 }
 

@@ -2,7 +2,8 @@
 // Parabolic–linear–parabolic ramp (common practice for magnet ramps: the rate, and so the RF energy gain per
 // turn, rises linearly from zero instead of jumping): from v0 at `start` to v1 at `start + duration`, with
 // constant second derivative a during the first and last `rounding` seconds and constant slope in between.
-// Continuity of v and dv/dt fixes a = (v1 − v0)/(τ·(T − τ)), τ = rounding, T = duration (τ ≤ T/2).
+// Continuity of v and dv/dt fixes a = (v1 − v0)/(τ·(T − τ)), τ = rounding, T = duration (τ ≤ T/2): the linear
+// part has slope a·τ = (v1 − v0)/(T − τ).
 import type { Program } from './table.ts';
 
 /** Parameters of a parabolic–linear–parabolic ramp. */
@@ -24,8 +25,8 @@ export function smoothRamp(r: SmoothRamp): Program {
   if (!(start >= 0 && Number.isFinite(start))) throw new RangeError(`ramp start = ${start} s: must be a finite number ≥ 0`);
   if (!(tau >= 0 && tau <= T / 2)) throw new RangeError(`ramp rounding = ${tau} s: must be in [0, ${T / 2}] s (half the duration)`);
   const dv = v1 - v0;
-  const a = tau > 0 ? dv / (tau * (T - tau)) : 0; // second derivative in the parabolic parts
-  const slope = tau > 0 ? a * tau : dv / T; // slope of the linear part
+  // Slope of the linear part; the parabolic parts use a = slope/τ, written so a tiny τ cannot overflow.
+  const slope = dv / (T - tau);
   const end = start + T;
   return {
     end,
@@ -33,10 +34,10 @@ export function smoothRamp(r: SmoothRamp): Program {
       const x = time - start;
       if (!(x > 0)) return v0;
       if (x >= T) return v1;
-      if (x < tau) return v0 + 0.5 * a * x * x;
+      if (x < tau) return v0 + 0.5 * slope * (x / tau) * x;
       const y = T - x;
-      if (y < tau) return v1 - 0.5 * a * y * y;
-      return v0 + 0.5 * a * tau * tau + slope * (x - tau);
+      if (y < tau) return v1 - 0.5 * slope * (y / tau) * y;
+      return v0 + 0.5 * slope * tau + slope * (x - tau);
     },
   };
 }
