@@ -5,7 +5,7 @@ import type { Data, Layout, Shape } from 'plotly.js';
 import Plotly from '../plotly.ts';
 import { BASE_LAYOUT, CONFIG } from '../views/Panel.tsx';
 import { scheduleDraw } from '../views/schedule.ts';
-import { usePlotResize } from './usePlotResize.ts';
+import { useResize } from '../views/useResize.ts';
 import type { CycleInterval } from '../../core/cycle/index.ts';
 
 /** Shading of each kind of flagged interval. */
@@ -30,7 +30,7 @@ export function CyclePlot(props: {
     yaxis: { zeroline: false, nticks: 4, tickfont: { size: 9 }, exponentformat: 'power' },
     datarevision: 0,
   });
-  usePlotResize(ref, 'cycle-' + props.id);
+  useResize(ref, 'cycle-' + props.id);
   const { data, intervals, mark, logY, zero, vlines, active } = props;
   useEffect(() => {
     if (!active) return;

@@ -4,7 +4,7 @@ import type { Data, Layout } from 'plotly.js';
 import Plotly from '../plotly.ts';
 import { BASE_LAYOUT, CONFIG } from '../views/Panel.tsx';
 import { scheduleDraw } from '../views/schedule.ts';
-import { usePlotResize } from '../cycle/usePlotResize.ts';
+import { useResize } from '../views/useResize.ts';
 
 /** Traces against dt [ns]; `y2` names a right-hand axis for traces with yaxis 'y2'; drawn only while `active` (its tab open). */
 export function SmallPlot(props: { id: string; title: string; data: Data[]; yTitle: string; y2?: string; legend?: boolean; active: boolean }) {
@@ -19,7 +19,7 @@ export function SmallPlot(props: { id: string; title: string; data: Data[]; yTit
     ...(props.y2 ? { yaxis2: { title: { text: props.y2 }, overlaying: 'y', side: 'right', rangemode: 'tozero', showgrid: false, tickfont: { size: 9 } } } : {}),
     datarevision: 0,
   } as Partial<Layout>);
-  usePlotResize(ref, 'int-' + props.id);
+  useResize(ref, 'int-' + props.id);
   useEffect(() => {
     if (!props.active) return;
     const L = layout.current;

@@ -1,5 +1,6 @@
 // Plotly follows window resizes only; panels also change size when a neighbour grows (a warning, the notice
-// bar), so each plot div is watched and resized in the draw queue.
+// bar), so each plot div is watched and resized in the draw queue. A plot that has left the page (a closed tab)
+// or is hidden is skipped: a resize queued just before would reject.
 import { useEffect, type RefObject } from 'react';
 import Plotly from '../plotly.ts';
 import { scheduleDraw } from './schedule.ts';
@@ -12,9 +13,11 @@ export function useResize(ref: RefObject<HTMLDivElement | null>, id: string): vo
     let last = '';
     const ro = new ResizeObserver(() => {
       const size = `${el.clientWidth}x${el.clientHeight}`;
-      if (size === last || !('data' in el)) return;
+      if (size === last || !('data' in el) || el.clientWidth === 0) return;
       last = size;
-      scheduleDraw('resize-' + id, () => void Plotly.Plots.resize(el));
+      scheduleDraw('resize-' + id, () => {
+        if (el.isConnected && el.clientWidth > 0) Promise.resolve(Plotly.Plots.resize(el) as unknown).catch(() => {});
+      });
     });
     ro.observe(el);
     return () => ro.disconnect();
