@@ -1,6 +1,6 @@
 // Browser tests of worker supervision: a worker made to fail (through the ?debug hook) is replaced, the notice bar
 // says so, the setup (fields and link) stays as it was and the beam starts again from turn 0.
-import { ok } from './harness.mjs';
+import { assert } from './harness.mjs';
 import { stepTo, waitReady } from './page.mjs';
 
 const FIELDS = ['#f-rf-systems-0-voltage', '#f-beam-seed', '#f-beam-particles', '#f-energy-ramp-value'];
@@ -28,9 +28,9 @@ async function failAndRecover(ctx, url, how, whileRunning) {
   const after = { hash: await page.evaluate(() => location.hash), fields: await Promise.all(FIELDS.map((f) => page.inputValue(f))) };
   const notice = await page.textContent('#notice');
   console.log(`     ${how}${whileRunning ? ' while tracking' : ' while idle'}: restart noticed after ${noticed} ms; notice: ${notice.slice(0, 120)}`);
-  ok(after.hash === before.hash, 'the link must not change');
-  ok(after.fields.every((v, i) => v === before.fields[i]), `fields ${before.fields} → ${after.fields}`);
-  ok(/turn 0/.test(notice), 'the notice must say the beam starts again from turn 0');
+  assert(after.hash === before.hash, 'the link must not change');
+  assert(after.fields.every((v, i) => v === before.fields[i]), `fields ${before.fields} → ${after.fields}`);
+  assert(/turn 0/.test(notice), 'the notice must say the beam starts again from turn 0');
   // The new worker tracks.
   await stepTo(page, 10, 10);
   return noticed;
@@ -42,7 +42,7 @@ export const faultTests = [
     name: 'a tracking worker that closes itself while tracking is restarted with the same setup',
     async fn({ ctx, url }) {
       const ms = await failAndRecover(ctx, url, 'close', true);
-      ok(ms < 12000, `noticed after ${ms} ms (deadline 5 s)`);
+      assert(ms < 12000, `noticed after ${ms} ms (deadline 5 s)`);
     },
   },
   {
@@ -55,7 +55,7 @@ export const faultTests = [
     name: 'a tracking worker that hangs is restarted after the 5 s deadline',
     async fn({ ctx, url }) {
       const ms = await failAndRecover(ctx, url, 'hang', true);
-      ok(ms >= 4000, `a hang must be noticed by the deadline, not earlier (${ms} ms)`);
+      assert(ms >= 4000, `a hang must be noticed by the deadline, not earlier (${ms} ms)`);
     },
   },
 ];

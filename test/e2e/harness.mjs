@@ -31,8 +31,8 @@ export function probe(ctx, origin) {
   };
 }
 
-/** Assert with a message. */
-export function ok(cond, msg) {
+/** Assert a condition; throws with the message when it fails. */
+export function assert(cond, msg) {
   if (!cond) throw new Error(msg);
 }
 

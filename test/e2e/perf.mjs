@@ -8,7 +8,7 @@ import { join } from 'node:path';
 import { cpus, loadavg } from 'node:os';
 import { gzipSync } from 'node:zlib';
 import { deflateSync, strToU8 } from 'fflate';
-import { ok } from './harness.mjs';
+import { assert } from './harness.mjs';
 import { waitReady } from './page.mjs';
 
 const ROOT = new URL('../../', import.meta.url).pathname;
@@ -132,7 +132,7 @@ export const perfTests = [
       const total = files.reduce((a, f) => a + f.gz, 0);
       for (const f of files) console.log(`     ${f.p}: ${(f.raw / 1000).toFixed(0)} kB, ${(f.gz / 1000).toFixed(1)} kB gzip`);
       console.log(`     total JavaScript: ${(total / 1000).toFixed(1)} kB gzip (budget ${JS_BUDGET / 1000} kB)`);
-      ok(total <= JS_BUDGET, `built JavaScript is ${(total / 1000).toFixed(1)} kB gzip, over the ${JS_BUDGET / 1000} kB budget`);
+      assert(total <= JS_BUDGET, `built JavaScript is ${(total / 1000).toFixed(1)} kB gzip, over the ${JS_BUDGET / 1000} kB budget`);
     },
   },
   {
@@ -142,21 +142,21 @@ export const perfTests = [
       const one = await open(ctx, url, '?debug&workers=1', doc);
       const two = await open(ctx, url, '?debug&workers=2', doc);
       const again = await open(ctx, url, '?debug&workers=2', doc);
-      ok((await one.evaluate(() => window.__phasewellDebug.workers())) === 1, 'one worker asked for');
-      ok((await two.evaluate(() => window.__phasewellDebug.workers())) === 2, 'the beam should be split over two workers');
+      assert((await one.evaluate(() => window.__phasewellDebug.workers())) === 1, 'one worker asked for');
+      assert((await two.evaluate(() => window.__phasewellDebug.workers())) === 2, 'the beam should be split over two workers');
       for (const p of [one, two, again]) await stepTo(p, 40, 40);
       const [a, b, c] = [await diagnosticsCsv(one), await diagnosticsCsv(two), await diagnosticsCsv(again)];
-      ok(a.length === 5 && b.length === 5, `rows (turns 0, 10, …, 40): ${a.length}, ${b.length}`);
-      ok(JSON.stringify(b) === JSON.stringify(c), 'a split run must repeat exactly with the same seed');
+      assert(a.length === 5 && b.length === 5, `rows (turns 0, 10, …, 40): ${a.length}, ${b.length}`);
+      assert(JSON.stringify(b) === JSON.stringify(c), 'a split run must repeat exactly with the same seed');
       for (const p of [one, two, again]) await p.close();
       const rel = (x, y) => Math.abs(x - y) / Math.max(Math.abs(x), Math.abs(y), 1e-300);
       for (let i = 0; i < a.length; i++) {
-        for (const k of ['turn', 'alive', 'lost', 'lengthFwhm_s', 'insideFraction']) ok(a[i][k] === b[i][k], `row ${i} ${k}: ${a[i][k]} vs ${b[i][k]}`);
+        for (const k of ['turn', 'alive', 'lost', 'lengthFwhm_s', 'insideFraction']) assert(a[i][k] === b[i][k], `row ${i} ${k}: ${a[i][k]} vs ${b[i][k]}`);
         // Same particles, same arithmetic per particle; only the summation order differs (1e-9 ≫ rounding of 1e5 terms).
-        for (const k of ['rmsDt_s', 'rmsDE_eV', 'emittanceRms_eVs']) ok(rel(a[i][k], b[i][k]) < 1e-9, `row ${i} ${k}: ${a[i][k]} vs ${b[i][k]}`);
-        for (const k of ['meanDt_s', 'meanDE_eV']) ok(Math.abs(a[i][k] - b[i][k]) < 1e-9 * (k === 'meanDt_s' ? a[i].rmsDt_s : a[i].rmsDE_eV), `row ${i} ${k}`);
+        for (const k of ['rmsDt_s', 'rmsDE_eV', 'emittanceRms_eVs']) assert(rel(a[i][k], b[i][k]) < 1e-9, `row ${i} ${k}: ${a[i][k]} vs ${b[i][k]}`);
+        for (const k of ['meanDt_s', 'meanDE_eV']) assert(Math.abs(a[i][k] - b[i][k]) < 1e-9 * (k === 'meanDt_s' ? a[i].rmsDt_s : a[i].rmsDE_eV), `row ${i} ${k}`);
         // Split 90/95 % areas come from the merged action histogram: within 0.1 % (core/diagnostics/partial.ts).
-        for (const k of ['emittance90_eVs', 'emittance95_eVs']) ok(rel(a[i][k], b[i][k]) < 1e-3, `row ${i} ${k}: ${a[i][k]} vs ${b[i][k]}`);
+        for (const k of ['emittance90_eVs', 'emittance95_eVs']) assert(rel(a[i][k], b[i][k]) < 1e-3, `row ${i} ${k}: ${a[i][k]} vs ${b[i][k]}`);
       }
     },
   },
@@ -164,17 +164,17 @@ export const perfTests = [
     name: 'a split beam moves into one worker, keeping its turn, when radiation is added',
     async fn({ ctx, url }) {
       const page = await open(ctx, url, '?debug&workers=2', withParticles(200_000));
-      ok((await page.evaluate(() => window.__phasewellDebug.workers())) === 2, 'the beam should start split');
+      assert((await page.evaluate(() => window.__phasewellDebug.workers())) === 2, 'the beam should start split');
       await stepTo(page, 20, 20);
       const rms = Number(await page.getAttribute('#sum-rms-length', 'data-value'));
       await page.click('#add-radiation'); // radiation noise needs one random stream: one worker
       await page.waitForFunction(() => window.__phasewellDebug.workers() === 1, null, { timeout: 30000 });
-      ok((await page.textContent('#turn')) === '20', 'the turn must be kept');
+      assert((await page.textContent('#turn')) === '20', 'the turn must be kept');
       await stepTo(page, 10, 30);
       const after = Number(await page.getAttribute('#sum-rms-length', 'data-value'));
       // Radiation over 10 turns of a proton ring changes σt by far less than 1 %; a lost or regenerated beam would not.
-      ok(Math.abs(after / rms - 1) < 0.05, `rms length ${rms} → ${after}`);
-      ok((await page.evaluate(async () => (await window.__phasewellDebug.memory()).length)) === 1, 'one worker left');
+      assert(Math.abs(after / rms - 1) < 0.05, `rms length ${rms} → ${after}`);
+      assert((await page.evaluate(async () => (await window.__phasewellDebug.memory()).length)) === 1, 'one worker left');
     },
   },
   {
@@ -197,8 +197,8 @@ export const perfTests = [
       await waitReady(page);
       const several = await separatrixMs(page, 'f-rf-systems-0-voltage', [21000, 22000, 23000, 24000, 25000]);
       console.log(`     edit → bucket numbers / separatrix drawn [ms, median of 5]: 1 RF ${one.numbersMs.toFixed(1)} / ${one.separatrixMs.toFixed(1)}; 2 RF ${several.numbersMs.toFixed(1)} / ${several.separatrixMs.toFixed(1)}; ${load()}`);
-      ok(figures.every((f) => f.turns > 0 && f.densityFps >= 2), 'the density picture must keep updating while tracking');
-      ok(Number.isFinite(one.separatrixMs) && Number.isFinite(several.separatrixMs), 'the separatrix must follow an edit');
+      assert(figures.every((f) => f.turns > 0 && f.densityFps >= 2), 'the density picture must keep updating while tracking');
+      assert(Number.isFinite(one.separatrixMs) && Number.isFinite(several.separatrixMs), 'the separatrix must follow an edit');
     },
   },
 ];

@@ -4,7 +4,7 @@ import { mkdirSync, readFileSync } from 'node:fs';
 import { loadavg, cpus } from 'node:os';
 import { deflateSync, strToU8 } from 'fflate';
 import { serve } from './server.mjs';
-import { ok, runAll } from './harness.mjs';
+import { assert, runAll } from './harness.mjs';
 import { openApp, stepTo, summary, traces, waitReady } from './page.mjs';
 import { cycleTests } from './cycle.mjs';
 import { faultTests } from './faults.mjs';
@@ -26,12 +26,12 @@ const tests = [
       const page = await openApp(ctx, url);
       const sep = (await traces(page, 'phase')).find((x) => x.name === 'separatrix');
       const dens = (await traces(page, 'phase-beam')).find((x) => x.name === 'density');
-      ok(sep && sep.n > 100, `separatrix has ${sep?.n} points`);
-      ok(dens && dens.zsum > 0.9 * demo.beam.particles, `density image holds ${dens?.zsum} of ${demo.beam.particles} particles`);
-      ok(!(await page.content()).includes('WebGL is not supported'), 'a plot says WebGL is not supported');
-      ok((await page.textContent('#caution')).includes('design exploration'), 'caution sentence missing');
-      ok((await page.textContent('#setup-title')).toLowerCase().includes('fictional'), 'fictional label missing');
-      ok(await page.isVisible('#fictional-badge'), 'fictional-machine badge not visible');
+      assert(sep && sep.n > 100, `separatrix has ${sep?.n} points`);
+      assert(dens && dens.zsum > 0.9 * demo.beam.particles, `density image holds ${dens?.zsum} of ${demo.beam.particles} particles`);
+      assert(!(await page.content()).includes('WebGL is not supported'), 'a plot says WebGL is not supported');
+      assert((await page.textContent('#caution')).includes('design exploration'), 'caution sentence missing');
+      assert((await page.textContent('#setup-title')).toLowerCase().includes('fictional'), 'fictional label missing');
+      assert(await page.isVisible('#fictional-badge'), 'fictional-machine badge not visible');
     },
   },
   {
@@ -43,8 +43,8 @@ const tests = [
       await page.fill('#f-energy-ramp-value', '4');
       await page.waitForFunction((a) => Number(document.getElementById('sum-area').dataset.value) !== a, area0);
       const area1 = await summary(page, 'area'), phis1 = await summary(page, 'phis');
-      ok(phis1 > phis0 * 1.5, `φs ${phis0}° → ${phis1}° for twice the ramp rate`);
-      ok(area1 < area0, `bucket area ${area0} → ${area1} eV·s should shrink on a faster ramp`);
+      assert(phis1 > phis0 * 1.5, `φs ${phis0}° → ${phis1}° for twice the ramp rate`);
+      assert(area1 < area0, `bucket area ${area0} → ${area1} eV·s should shrink on a faster ramp`);
       await page.waitForFunction((y0) => {
         const s = document.getElementById('plot-phase').data.find((t) => t.name === 'separatrix');
         return s && Math.max(...s.y) < y0;
@@ -52,15 +52,15 @@ const tests = [
       await page.fill('#f-energy-ramp-value', '5000');
       const err = await page.waitForSelector('#f-energy-ramp-value-error');
       const msg = await err.textContent();
-      ok(/energy\.ramp\.value = 5000: must be in \[-1000, 1000\] T\/s/.test(msg), `error message: ${msg}`);
-      ok((await summary(page, 'area')) === area1, 'the bucket should stay that of the last valid setup');
-      ok((await page.inputValue('#f-energy-ramp-value')) === '5000', 'the typed value must stay in the field');
+      assert(/energy\.ramp\.value = 5000: must be in \[-1000, 1000\] T\/s/.test(msg), `error message: ${msg}`);
+      assert((await summary(page, 'area')) === area1, 'the bucket should stay that of the last valid setup');
+      assert((await page.inputValue('#f-energy-ramp-value')) === '5000', 'the typed value must stay in the field');
       // A value the schema accepts but the bucket cannot hold: the tracker's message lands next to the field.
       await page.fill('#f-energy-ramp-value', '4');
       await page.fill('#f-beam-distribution-size-value', '5');
       const err2 = await (await page.waitForSelector('#f-beam-distribution-size-value-error')).textContent();
-      ok(/beam\.distribution\.size\.value = 5 eV·s: .*exceeds/.test(err2), `emittance error: ${err2}`);
-      ok((await traces(page, 'phase-beam')).find((t) => t.name === 'density').zsum > 0, 'the previous beam stays on screen');
+      assert(/beam\.distribution\.size\.value = 5 eV·s: .*exceeds/.test(err2), `emittance error: ${err2}`);
+      assert((await traces(page, 'phase-beam')).find((t) => t.name === 'density').zsum > 0, 'the previous beam stays on screen');
     },
   },
   {
@@ -75,17 +75,17 @@ const tests = [
       }), ids, { timeout: 5000 });
       for (const id of ids) {
         const [s] = await traces(page, 'evo-' + id);
-        ok(s.y.every(Number.isFinite), `${id}: values are finite`);
+        assert(s.y.every(Number.isFinite), `${id}: values are finite`);
       }
       const [len] = await traces(page, 'evo-rms-length');
-      ok(new Set(len.y).size > 1, 'the rms length should change over 200 turns');
-      ok((await page.textContent('#cycle-time')) !== '0 ns', 'cycle time should advance');
+      assert(new Set(len.y).size > 1, 'the rms length should change over 200 turns');
+      assert((await page.textContent('#cycle-time')) !== '0 ns', 'cycle time should advance');
       // A machine change keeps the beam and the turn; a beam change regenerates the beam (turn 0).
       const area = await summary(page, 'area');
       await page.fill('#f-rf-systems-0-voltage', '30');
       await page.waitForFunction((a) => Number(document.getElementById('sum-area').dataset.value) > a, area);
       await page.waitForTimeout(300);
-      ok((await page.textContent('#turn')) === '200', 'a voltage change must keep the beam and the turn');
+      assert((await page.textContent('#turn')) === '200', 'a voltage change must keep the beam and the turn');
       await stepTo(page, 10, 210);
       await page.fill('#f-beam-seed', '8');
       await page.waitForFunction(() => document.getElementById('turn').textContent === '0');
@@ -112,16 +112,16 @@ const tests = [
       const rmsA = await summary(a, 'rms-length');
       await a.click('#copy-link');
       const link = await a.inputValue('#share-link');
-      ok(link.includes('#s1='), `link: ${link.slice(0, 80)}`);
+      assert(link.includes('#s1='), `link: ${link.slice(0, 80)}`);
       const pts = (await traces(a, 'phase-beam')).find((t) => t.name === 'particles');
-      ok(pts && pts.n === 5000, `5000 particles should be drawn as points, got ${pts?.n}`);
-      ok(!(await a.content()).includes('WebGL is not supported'), 'the point view says WebGL is not supported');
+      assert(pts && pts.n === 5000, `5000 particles should be drawn as points, got ${pts?.n}`);
+      assert(!(await a.content()).includes('WebGL is not supported'), 'the point view says WebGL is not supported');
       const b = await openApp(ctx, link);
       for (const id of ['#f-rf-systems-0-voltage', '#f-beam-seed', '#f-beam-particles', '#f-energy-ramp-value', '#f-ring-circumference'])
-        ok((await b.inputValue(id)) === (await a.inputValue(id)), `${id}: ${await b.inputValue(id)} vs ${await a.inputValue(id)}`);
+        assert((await b.inputValue(id)) === (await a.inputValue(id)), `${id}: ${await b.inputValue(id)} vs ${await a.inputValue(id)}`);
       await stepTo(b, 150, 150);
       const rmsB = await summary(b, 'rms-length');
-      ok(Number.isFinite(rmsA) && rmsA === rmsB, `rms length after 150 turns: ${rmsA} vs ${rmsB}`);
+      assert(Number.isFinite(rmsA) && rmsA === rmsB, `rms length after 150 turns: ${rmsA} vs ${rmsB}`);
     },
   },
   {
@@ -130,13 +130,13 @@ const tests = [
       const page = await ctx.newPage();
       await page.goto(url + '#s1=not-really-deflate-data');
       await waitReady(page);
-      ok((await page.textContent('#notice')).includes('could not be opened'), 'notice for a corrupt link');
+      assert((await page.textContent('#notice')).includes('could not be opened'), 'notice for a corrupt link');
       const bad = structuredClone(demo);
       bad.rf.systems[0].voltage = -5;
       await page.goto(url + 'index.html' + linkFor(bad));
       await page.waitForFunction(() => document.getElementById('notice')?.textContent.includes('rf.systems[0].voltage'));
       const text = await page.textContent('#notice');
-      ok(/rf\.systems\[0\]\.voltage = -5: must be in \[0, 1e9\] V/.test(text), `notice: ${text}`);
+      assert(/rf\.systems\[0\]\.voltage = -5: must be in \[0, 1e9\] V/.test(text), `notice: ${text}`);
       await waitReady(page);
       await stepTo(page, 20, 20);
     },
@@ -154,24 +154,24 @@ const tests = [
       };
       const json = await get('#save-setup');
       const saved = JSON.parse(readFileSync(json.path, 'utf8'));
-      ok(saved.version === 1 && saved.beam.particles === 3000 && /fictional/i.test(saved.title), `saved setup: ${json.name}`);
+      assert(saved.version === 1 && saved.beam.particles === 3000 && /fictional/i.test(saved.title), `saved setup: ${json.name}`);
       // Header with units, then turns 0, 10, 20, 30 (run.diagnosticsEvery = 10).
       const diag = readFileSync((await get('#export-diagnostics')).path, 'utf8').trim().split('\n');
-      ok(diag[0].startsWith('turn,time_s,alive,lost,meanDt_s') && diag.length === 5, `diagnostics CSV: ${diag[0]} (${diag.length} lines)`);
+      assert(diag[0].startsWith('turn,time_s,alive,lost,meanDt_s') && diag.length === 5, `diagnostics CSV: ${diag[0]} (${diag.length} lines)`);
       const parts = readFileSync((await get('#export-particles')).path, 'utf8').trim().split('\n');
-      ok(parts[0] === 'alive,dt_s,dE_eV' && parts.length === 3001, `particles CSV: ${parts[0]} (${parts.length} lines)`);
+      assert(parts[0] === 'alive,dt_s,dE_eV' && parts.length === 3001, `particles CSV: ${parts[0]} (${parts.length} lines)`);
       const png = await get('#plot-profile >> xpath=.. >> button');
-      ok(png.name.endsWith('.png') && readFileSync(png.path).subarray(1, 4).toString() === 'PNG', `profile image: ${png.name}`);
+      assert(png.name.endsWith('.png') && readFileSync(png.path).subarray(1, 4).toString() === 'PNG', `profile image: ${png.name}`);
       const phasePng = await get('section.phase button');
-      ok(readFileSync(phasePng.path).length > 5000, 'phase-space image is empty');
+      assert(readFileSync(phasePng.path).length > 5000, 'phase-space image is empty');
       // Change a field, then load the saved file: the saved value comes back; a broken file is refused with reasons.
       await page.fill('#f-ring-circumference', '190');
       await page.setInputFiles('#load-setup-file', json.path);
       await page.waitForFunction(() => document.getElementById('f-ring-circumference').value === '180');
       await page.setInputFiles('#load-setup-file', { name: 'broken.json', mimeType: 'application/json', buffer: Buffer.from(JSON.stringify({ ...saved, ring: { ...saved.ring, circumference: -1 } })) });
       const n = await (await page.waitForSelector('#notice.error')).textContent();
-      ok(/broken\.json was not loaded.*ring\.circumference = -1: must be in \[1, 100000\] m/.test(n), `notice: ${n}`);
-      ok((await page.inputValue('#f-ring-circumference')) === '180', 'a refused file must not change the setup');
+      assert(/broken\.json was not loaded.*ring\.circumference = -1: must be in \[1, 100000\] m/.test(n), `notice: ${n}`);
+      assert((await page.inputValue('#f-ring-circumference')) === '180', 'a refused file must not change the setup');
     },
   },
   {
@@ -208,8 +208,8 @@ const tests = [
       const inside = long.map(([s, d]) => `${d.toFixed(0)} ms [${measures.filter(([, t, m]) => t < s + d && t + m > s).map(([n, , m]) => `${n} ${m.toFixed(0)}`).join('; ') || 'no app step'}]`);
       const load = `load average ${loadavg()[0].toFixed(1)} on ${cpus().length} cores`;
       console.log(`     1e6 particles: ${turn} turns in ${Date.now() - t0} ms; long tasks: ${long.length}, longest ${max.toFixed(0)} ms; requests ${probe.state.requests}; ${load}`);
-      ok(turn >= 5, `only ${turn} turns tracked in 5 s`);
-      ok(max <= 50, `long tasks while tracking (${load}): ${inside.join(', ')}`);
+      assert(turn >= 5, `only ${turn} turns tracked in 5 s`);
+      assert(max <= 50, `long tasks while tracking (${load}): ${inside.join(', ')}`);
     },
   },
   {
