@@ -10,22 +10,12 @@ import { computeBucket, contourAt } from '../core/bucket.ts';
 import { makeBunch, type Bunch } from '../core/bunch.ts';
 import { machineAtStart, type MachineState } from '../core/machine.ts';
 import { makeRng } from '../core/rng.ts';
-import { parseSetup } from '../core/setup/validate.ts';
+import { protonRing } from './support/setups.ts';
 
 const V = 50e3;
 
 function setupOf(distribution: unknown, beam: Record<string, unknown> = {}, more: Record<string, unknown> = {}) {
-  const r = parseSetup({
-    version: 1,
-    particle: { kind: 'proton' },
-    ring: { circumference: 100, gammaT: 5 },
-    energy: { start: { quantity: 'kinetic', value: 1e9 } },
-    rf: { systems: [{ harmonic: 4, voltage: V }] },
-    beam: { distribution, particles: 1000, ...beam },
-    ...more,
-  });
-  if (!r.ok) throw new Error(JSON.stringify(r.errors));
-  return r.setup;
+  return protonRing({ circumference: 100, gammaT: 5, kinetic: 1e9, systems: [{ harmonic: 4, voltage: V }], beam: { distribution, particles: 1000, ...beam }, more });
 }
 
 const m: MachineState = machineAtStart(setupOf({ kind: 'coasting', rmsEnergySpread: 1 }));

@@ -5,8 +5,8 @@ import ellipe from '@stdlib/math-base-special-ellipe';
 import ellipk from '@stdlib/math-base-special-ellipk';
 import { describe, expect, it } from 'vitest';
 import { computeBucket, contourAt, dtOfPhase, fixedPoints, hamiltonian, phaseOfDt, separatrix, type BucketInfo } from '../core/bucket.ts';
-import { machineAtStart, type MachineState } from '../core/machine.ts';
-import { parseSetup } from '../core/setup/validate.ts';
+import type { MachineState } from '../core/machine.ts';
+import { protonMachine } from './support/setups.ts';
 
 const MP = 938.272_088_16e6; // proton rest energy [eV], CODATA 2018
 const C = 299_792_458; // speed of light [m/s], exact
@@ -22,16 +22,7 @@ const CASES = [
 ] as const;
 
 function machine(gammaT: number, T: number, gain = 0, slope = 'auto'): MachineState {
-  const r = parseSetup({
-    version: 1,
-    particle: { kind: 'proton' },
-    ring: { circumference: CIRC, gammaT },
-    energy: { start: { quantity: 'kinetic', value: T }, ramp: gain ? { kind: 'gainPerTurn', value: gain } : { kind: 'flat' } },
-    rf: { systems: [{ harmonic: H, voltage: V }], slope },
-    beam: { distribution: { kind: 'matched', shape: 'gaussian', size: { by: 'rmsLength', value: 1e-8 } }, particles: 100 },
-  });
-  if (!r.ok) throw new Error(JSON.stringify(r.errors));
-  return machineAtStart(r.setup);
+  return protonMachine({ circumference: CIRC, gammaT, kinetic: T, systems: [{ harmonic: H, voltage: V }], gain, slope });
 }
 
 // Independent kinematics: γ = 1 + T/m, η = 1/γt² − 1/γ², ω_rf = h·2πβc/C (PHYSICS.md §2–3, Lee ch. 2).

@@ -9,24 +9,16 @@ import { computeBucket } from '../core/bucket.ts';
 import type { Bunch } from '../core/bunch.ts';
 import { computeDiagnostics } from '../core/diagnostics/index.ts';
 import { machineAtStart } from '../core/machine.ts';
-import { parseSetup } from '../core/setup/validate.ts';
+import { protonRing } from './support/setups.ts';
 import { Tracker } from '../core/tracker.ts';
 
 const V = 1e6;
 const N = 100_000;
-const setupWith = (distribution: unknown) => {
-  const r = parseSetup({
-  version: 1,
-  particle: { kind: 'proton' },
-  ring: { circumference: 100, gammaT: 5 },
-  energy: { start: { quantity: 'kinetic', value: 1e9 } },
-  rf: { systems: [{ harmonic: 4, voltage: V }] },
-    beam: { distribution, particles: N, seed: 11 },
-    run: { momentumAperture: 0.5 },
+const setupWith = (distribution: unknown) =>
+  protonRing({
+    circumference: 100, gammaT: 5, kinetic: 1e9, systems: [{ harmonic: 4, voltage: V }],
+    beam: { distribution, particles: N, seed: 11 }, more: { run: { momentumAperture: 0.5 } },
   });
-  if (!r.ok) throw new Error(JSON.stringify(r.errors));
-  return r.setup;
-};
 const setup = setupWith({ kind: 'coasting', rmsEnergySpread: 0 });
 const m = machineAtStart(setup);
 const beta2E = m.beta * m.beta * m.Es;

@@ -3,8 +3,8 @@
 // integration of the equations of motion. Machine states come from setup objects through parseSetup + machineAtStart.
 import { describe, expect, it } from 'vitest';
 import { computeBucket, fixedPoints, type BucketInfo } from '../core/bucket.ts';
-import { machineAtStart, type MachineState } from '../core/machine.ts';
-import { parseSetup } from '../core/setup/validate.ts';
+import type { MachineState } from '../core/machine.ts';
+import { protonMachine } from './support/setups.ts';
 import { smallAmplitudeTune, tuneAtAmplitude } from '../core/synchrotron.ts';
 
 const MP = 938.272_088_16e6; // proton rest energy [eV], CODATA 2018
@@ -27,16 +27,7 @@ const shortening = (eta: number) => (eta < 0 ? 0 : 180);
 function machine(gammaT: number, T: number, r: number, phaseDeg: number, gain = 0): MachineState {
   const systems = [{ harmonic: H, voltage: V1 }];
   if (r > 0) systems.push({ harmonic: N * H, voltage: r * V1, phase: phaseDeg } as (typeof systems)[0]);
-  const res = parseSetup({
-    version: 1,
-    particle: { kind: 'proton' },
-    ring: { circumference: CIRC, gammaT },
-    energy: { start: { quantity: 'kinetic', value: T }, ramp: gain ? { kind: 'gainPerTurn', value: gain } : { kind: 'flat' } },
-    rf: { systems },
-    beam: { distribution: { kind: 'matched', shape: 'gaussian', size: { by: 'rmsLength', value: 1e-8 } }, particles: 100 },
-  });
-  if (!res.ok) throw new Error(JSON.stringify(res.errors));
-  return machineAtStart(res.setup);
+  return protonMachine({ circumference: CIRC, gammaT, kinetic: T, systems, gain });
 }
 
 // Independent kinematics (PHYSICS.md §2–3, Lee ch. 2).

@@ -4,8 +4,8 @@
 import ellipk from '@stdlib/math-base-special-ellipk';
 import { describe, expect, it } from 'vitest';
 import { computeBucket, type BucketInfo } from '../core/bucket.ts';
-import { machineAtStart, type MachineState } from '../core/machine.ts';
-import { parseSetup } from '../core/setup/validate.ts';
+import type { MachineState } from '../core/machine.ts';
+import { protonMachine } from './support/setups.ts';
 import { smallAmplitudeTune, tuneAtAmplitude, tuneVsAmplitude } from '../core/synchrotron.ts';
 
 const MP = 938.272_088_16e6; // proton rest energy [eV], CODATA 2018
@@ -20,16 +20,7 @@ const CASES = [
 ] as const;
 
 function machine(gammaT: number, T: number, V: number, gain = 0): MachineState {
-  const r = parseSetup({
-    version: 1,
-    particle: { kind: 'proton' },
-    ring: { circumference: CIRC, gammaT },
-    energy: { start: { quantity: 'kinetic', value: T }, ramp: gain ? { kind: 'gainPerTurn', value: gain } : { kind: 'flat' } },
-    rf: { systems: [{ harmonic: H, voltage: V }] },
-    beam: { distribution: { kind: 'matched', shape: 'gaussian', size: { by: 'rmsLength', value: 1e-8 } }, particles: 100 },
-  });
-  if (!r.ok) throw new Error(JSON.stringify(r.errors));
-  return machineAtStart(r.setup);
+  return protonMachine({ circumference: CIRC, gammaT, kinetic: T, systems: [{ harmonic: H, voltage: V }], gain });
 }
 
 // Independent kinematics (PHYSICS.md §2–3, Lee ch. 2): γ = 1 + T/m, η = 1/γt² − 1/γ², f0 = βc/C.
