@@ -9,9 +9,10 @@
 // Kernels: with one gap (the usual case) and at most MAX_RF systems, the turn runs through a turn kernel
 // (core/kernels: WebAssembly SIMD where it validates, else TypeScript; polynomial sine). The bunch's columns
 // then move into the kernel's memory once. Option kernel: 'reference' keeps the plain elements with Math.sin.
+// An induced voltage without other added elements rides in the same kernel pass (one pass over memory per turn).
 import type { Bunch } from './bunch.ts';
 import { KernelGap } from './elements/kernelGap.ts';
-import { chooseKernel, createKernel, MAX_RF, type Columns, type TurnKernel } from './kernels/index.ts';
+import { chooseKernel, createKernel, MAX_RF, type Columns, type InducedParams, type TurnKernel } from './kernels/index.ts';
 import { drift } from './elements/drift.ts';
 import { inducedKickFromSetup, type InducedKickElement } from './elements/inducedKick.ts';
 import { radiationKickFromSetup } from './elements/radiationKick.ts';
@@ -41,6 +42,7 @@ export class Tracker {
   private gaps: Gap[] = [];
   private readonly extras: Element[] = [];
   private physics: Element[] = []; // from the setup: induced voltage, then radiation (after the RF kicks)
+  private stage: InducedParams | null = null; // the induced voltage's tables in the kernel, when it runs fused
   /** The induced-voltage element of the setup (null without intensity and impedances); rebuilt by updateSetup. */
   induced: InducedKickElement | null = null;
 
@@ -103,6 +105,16 @@ export class Tracker {
     const fast = this.fast;
     if (fast !== null) {
       fast.setKick(cur);
+      const stage = this.stage, induced = this.induced;
+      if (stage !== null && induced !== null && extras.length === 0) {
+        induced.prepare(b, cur, stage);
+        this.stepper.advance();
+        fast.setDrift(cur);
+        const passed = b.n;
+        fast.applyKickDriftInduced(b, stage);
+        induced.settle(b, passed, stage);
+        return;
+      }
       if (this.physics.length + extras.length === 0) {
         this.stepper.advance();
         fast.setDrift(cur);
@@ -156,6 +168,14 @@ export class Tracker {
     });
     const single = pos.length === 1 && setup.rf.systems.length <= MAX_RF;
     this.fast = single && this.kernel && this.cols ? new KernelGap(this.kernel, byPos.get(pos[0])!, mode, momentumAperture, this.cols) : null;
+    // The induced voltage alone rides in the kernel's pass (its tables live in the kernel's memory).
+    if (this.stage) this.kernel!.freeInduced(this.stage);
+    this.stage = this.fast && this.induced && this.physics.length === 1 ? this.kernel!.allocInduced(this.induced.bins) : null;
+    if (this.cols) {
+      // an allocation may have grown the kernel's memory: the Columns object is re-pointed, the bunch's fields are not
+      this.bunch.dt = this.cols.dt;
+      this.bunch.dE = this.cols.dE;
+    }
     if (pos.length > 1) {
       const s = this.stepper.state;
       this.ahead = new MachineStepper(setup);

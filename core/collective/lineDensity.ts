@@ -50,15 +50,26 @@ export function depositLinear(dt: Float64Array, n: number, g: BinGrid, w: number
     c[j] += 1;
     c[j + 1] += x - k;
   }
+  foldCells(c, nb, w, out);
+  return outside;
+}
+
+/**
+ * Linear weights from per-cell sums (cells[2k] = count, cells[2k+1] = Σf for cell k = 0..nb between the centres
+ * of bins k−1 and k): (count − Σf)·w to bin k−1 and Σf·w to bin k, the outer half cells to the edge bins.
+ * out (nb entries) is overwritten; returns the count of deposited particles.
+ */
+export function foldCells(cells: Float64Array, nb: number, w: number, out: Float64Array): number {
   out.fill(0);
+  let count = 0;
   for (let k = 0; k <= nb; k++) {
-    const cnt = c[2 * k], sf = c[2 * k + 1];
-    // index k (guard-shifted) is bin k − 1
+    const cnt = cells[2 * k], sf = cells[2 * k + 1];
     const lo = k === 0 ? 0 : k - 1, hi = k === nb ? nb - 1 : k;
     out[lo] += w * (cnt - sf);
     out[hi] += w * sf;
+    count += cnt;
   }
-  return outside;
+  return count;
 }
 
 /** Kick dE[i] += v(dt[i]) with v linear between the bin centres (constant in the outer half bins, 0 outside); returns Σ kicks [eV]. */

@@ -4,10 +4,14 @@
 // deposit's weights. V_ind depends on dt only, so the kick is a shear (area-preserving) for a given line density.
 // The grid is fixed at the first pass (centred on the bunch, see core/collective/model.ts); particles outside it
 // carry no charge and get no kick (counted in `outside`).
+// Two ways to run it: `apply` does all of it in its own passes over the bunch (the reference path, and whenever
+// other elements act between the kicks and the drift); prepare/settle run it inside a turn kernel's pass
+// (core/kernels InducedParams: the kick with the RF kick, the deposit for the next turn after the drift).
 import type { Bunch } from '../bunch.ts';
 import type { InducedVoltage } from '../collective/inducedVoltage.ts';
-import { depositLinear, kickLinear } from '../collective/lineDensity.ts';
+import { depositLinear, foldCells, kickLinear } from '../collective/lineDensity.ts';
 import { intensityModel, makeInducedVoltage, windowGrid, type IntensityModel } from '../collective/model.ts';
+import type { InducedParams } from '../kernels/types.ts';
 import type { MachineState } from '../machine.ts';
 import type { Setup } from '../setup/schema.ts';
 import type { Element } from './types.ts';
@@ -18,8 +22,14 @@ export interface InducedKickElement extends Element {
   readonly calc: InducedVoltage | null;
   /** Mean energy change per particle in the last pass [eV] (negative: energy lost to the impedance). */
   readonly meanKick: number;
-  /** Alive particles outside the window in the last pass. */
+  /** Alive particles outside the window at the last deposit. */
   readonly outside: number;
+  /** Bins of the window (the size of a kernel's induced tables). */
+  readonly bins: number;
+  /** Fused path, before the kernel pass of turn n (state m): V_ind from the line density of dt now, into p. */
+  prepare(b: Bunch, m: MachineState, p: InducedParams): void;
+  /** Fused path, after the pass (and the removal of lost particles): its deposit is the next turn's line density. */
+  settle(b: Bunch, passed: number, p: InducedParams): void;
 }
 
 /** Induced-voltage kick of an intensity model; `grid` fixes the window (else chosen from the bunch at the first pass). */
@@ -28,9 +38,24 @@ export function inducedKick(model: IntensityModel, grid?: { e0: number; delta: n
   let q = new Float64Array(0);
   let meanKick = 0;
   let outside = 0;
+  let current = false; // q is the line density of the bunch's dt as it is now (set by settle, cleared by apply)
   const ctx = { omega0: 0, beta: 0, gamma: 0 };
+
+  // V_ind on the grid from q, for the state of this turn.
+  function compute(b: Bunch, m: MachineState): InducedVoltage {
+    if (calc === null) {
+      calc = makeInducedVoltage(model, m, grid ?? windowGrid(model, m, ...extent(b)));
+      q = new Float64Array(calc.grid.nb);
+    }
+    if (!current) outside = depositLinear(b.dt, b.n, calc.grid, model.bunchCharge / b.total, q);
+    ctx.omega0 = m.omega0; ctx.beta = m.beta; ctx.gamma = m.gamma;
+    calc.compute(q, ctx, m.T0 / model.bunches, model.bunches, false);
+    return calc;
+  }
+
   return {
     name: 'induced voltage',
+    bins: grid?.nb ?? model.bins,
     get calc() {
       return calc;
     },
@@ -41,20 +66,31 @@ export function inducedKick(model: IntensityModel, grid?: { e0: number; delta: n
       return outside;
     },
     apply(b: Bunch, m: MachineState): void {
-      if (calc === null) {
-        calc = makeInducedVoltage(model, m, grid ?? windowGrid(model, m, ...extent(b)));
-        q = new Float64Array(calc.grid.nb);
-      }
-      const w = model.bunchCharge / b.total;
-      outside = depositLinear(b.dt, b.n, calc.grid, w, q);
-      ctx.omega0 = m.omega0; ctx.beta = m.beta; ctx.gamma = m.gamma;
-      calc.compute(q, ctx, m.T0 / model.bunches, model.bunches, false);
-      const v = calc.voltage;
+      const c = compute(b, m);
+      current = false; // the drift that follows moves dt
+      const v = c.voltage;
       const Z = m.particle.Z;
       if (Z !== 1) for (let i = 0; i < v.length; i++) v[i] *= Z; // energy kick [eV]; undone below so `voltage` stays in V
-      const sum = kickLinear(b.dt, b.dE, b.n, calc.grid, v);
+      const sum = kickLinear(b.dt, b.dE, b.n, c.grid, v);
       if (Z !== 1) for (let i = 0; i < v.length; i++) v[i] /= Z;
       meanKick = b.n > 0 ? sum / b.n : 0;
+    },
+    prepare(b: Bunch, m: MachineState, p: InducedParams): void {
+      const c = compute(b, m);
+      const g = c.grid, nb = g.nb, v = c.voltage, Z = m.particle.Z, out = p.volts;
+      if (p.nb !== nb) throw new Error(`induced stage: tables for ${p.nb} bins, window has ${nb}`);
+      for (let i = 0; i < nb; i++) out[i + 1] = Z * v[i];
+      out[0] = out[1];
+      out[nb + 1] = out[nb];
+      p.inv = 1 / g.delta;
+      p.x0 = g.e0 * p.inv - 0.5; // as depositLinear and kickLinear: bin centre i at x = i + 1
+      p.cells.fill(0);
+    },
+    settle(b: Bunch, passed: number, p: InducedParams): void {
+      const inside = foldCells(p.cells, p.nb, model.bunchCharge / b.total, q);
+      outside = b.n - inside;
+      meanKick = passed > 0 ? p.sum / passed : 0;
+      current = true;
     },
   };
 }

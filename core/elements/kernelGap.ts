@@ -5,7 +5,7 @@
 // (relative error < 5.4e-9; the kick still depends on dt only, so the map stays exactly area-preserving), and
 // the loss check after the pass, so a lost particle has been drifted once more before it is set aside.
 import type { Bunch } from '../bunch.ts';
-import { compactLost, makeDriftParams, makeKickParams, type Columns, type Limits, type TurnKernel } from '../kernels/index.ts';
+import { compactLost, makeDriftParams, makeKickParams, type Columns, type InducedParams, type Limits, type TurnKernel } from '../kernels/index.ts';
 import type { MachineState } from '../machine.ts';
 import { dEAtDelta, type DriftMode } from './drift.ts';
 
@@ -72,5 +72,10 @@ export class KernelGap {
   /** Fused kick and drift in one pass, then set the lost particles aside. */
   applyKickDrift(b: Bunch): void {
     if (this.kernel.kickDrift(this.cols, b.n, this.kick, this.drift, this.limits) > 0) b.n = compactLost(this.cols, b.n, this.limits);
+  }
+
+  /** Fused kick, induced-voltage stage, drift and deposit in one pass, then set the lost particles aside. */
+  applyKickDriftInduced(b: Bunch, ind: InducedParams): void {
+    if (this.kernel.kickDriftInduced(this.cols, b.n, this.kick, ind, this.drift, this.limits) > 0) b.n = compactLost(this.cols, b.n, this.limits);
   }
 }

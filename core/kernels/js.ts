@@ -14,7 +14,7 @@
 //   loss:   count the particles with !(|dt| ≤ dtMax and dEmin ≤ dE ≤ dEmax) after the pass.
 // Hot loops take every parameter as an argument (PERF.md: module-scope reads in the loop halve the speed).
 import { sinPoly } from './sine.ts';
-import { checkColumns, checkKick, type KickParams, type TurnKernel } from './types.ts';
+import { checkColumns, checkInduced, checkKick, makeInducedParams, type DriftParams, type InducedParams, type KickParams, type Limits, type TurnKernel } from './types.ts';
 
 type Sine = (x: number) => number;
 
@@ -45,6 +45,14 @@ export function createJsKernel(options: { sine?: 'poly' | 'native' } = {}): Turn
       if (c === 2) kick2(cols.dt, cols.dE, n, sin, A[0], w[0], p[0], A[1], w[1], p[1], kick.dEsync);
       else kick4(cols.dt, cols.dE, n, sin, kick);
       return driftExact(cols.dt, cols.dE, n, drift.period, invEs, invB2, invB2G2, drift.alpha0, drift.alpha1, drift.alpha2, limits.dtMax, lo, limits.dEmax);
+    },
+    allocInduced: makeInducedParams,
+    freeInduced: () => {},
+    kickDriftInduced(cols, n, kick, ind, drift, limits) {
+      checkColumns(cols, n);
+      checkKick(kick);
+      checkInduced(ind);
+      return kdInduced(cols.dt, cols.dE, n, sin, kick, ind, drift, limits);
     },
     kick(cols, n, kick) {
       checkColumns(cols, n);
@@ -169,5 +177,49 @@ function kd1Exact(dt: Float64Array, dE: Float64Array, n: number, sin: Sine, a0: 
     dt[i] = t;
     if (!(Math.abs(t) <= dtMax && e <= hi && e >= lo)) out++;
   }
+  return out;
+}
+
+// Kick, induced-voltage kick, drift, deposit (types.ts InducedParams), any count of RF systems, either drift.
+// Operation for operation as the wasm kdi_* kernels: the RF sum in the same order, the interpolation as
+// a + f·(b − a), the kick sums split by the parity of the index (the two SIMD lanes).
+function kdInduced(dt: Float64Array, dE: Float64Array, n: number, sin: Sine, kick: KickParams, ind: InducedParams, drift: DriftParams, limits: Limits): number {
+  const c = kick.count, A = kick.amplitude, w = kick.omega, p = kick.phase, sync = kick.dEsync;
+  const linear = drift.kind === 'linear', slip = drift.slip, period = drift.period;
+  const invEs = 1 / drift.Es, invB2 = 1 / drift.beta2, invB2G2 = 1 / drift.beta2 / drift.gamma2;
+  const al0 = drift.alpha0, al1 = drift.alpha1, al2 = drift.alpha2;
+  const dtMax = limits.dtMax, hi = limits.dEmax, lo = limits.dEmin ?? -limits.dEmax;
+  const inv = ind.inv, x0 = ind.x0, nb = ind.nb, top = nb + 0.5, v = ind.volts, cells = ind.cells;
+  let out = 0, s0 = 0, s1 = 0;
+  for (let i = 0; i < n; i++) {
+    let t = dt[i];
+    let acc = A[0] * sin(p[0] + w[0] * t);
+    for (let k = 1; k < c; k++) acc = acc + A[k] * sin(p[k] + w[k] * t);
+    let e = dE[i] + (acc - sync);
+    const x = t * inv - x0;
+    let kk = 0;
+    if (x >= 0.5 && x < top) {
+      const j = x | 0;
+      const a = v[j];
+      kk = a + (x - j) * (v[j + 1] - a);
+    }
+    e = e + kk;
+    if ((i & 1) === 0) s0 = s0 + kk;
+    else s1 = s1 + kk;
+    t = t + (linear ? slip * e : period * exactRelative(e, invEs, invB2, invB2G2, al0, al1, al2));
+    dE[i] = e;
+    dt[i] = t;
+    if (!(Math.abs(t) <= dtMax && e <= hi && e >= lo)) {
+      out++;
+      continue;
+    }
+    const y = t * inv - x0;
+    if (y >= 0.5 && y < top) {
+      const j = y | 0;
+      cells[2 * j] += 1;
+      cells[2 * j + 1] += y - j;
+    }
+  }
+  ind.sum = s0 + s1;
   return out;
 }

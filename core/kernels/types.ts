@@ -57,6 +57,28 @@ export interface Limits {
   dEmin?: number;
 }
 
+/**
+ * Induced-voltage stage fused into a kick–drift pass (core/elements/inducedKick.ts fills it). Grid coordinate
+ * x = dt·inv − x0 puts the centre of bin i at x = i + 1; the window is x ∈ [0.5, nb + 0.5) and cell k = ⌊x⌋ spans
+ * the centres k and k+1 (cells 0 and nb are the outer half bins).
+ *   kick, with dt before the drift:  dE += volts[k] + f·(volts[k+1] − volts[k]), f = x − k; 0 outside the window
+ *   deposit, with dt after the drift, particles inside the window and the limits only:
+ *                                    cells[2k] += 1, cells[2k+1] += f   (the caller folds them into bins)
+ * The kick order per particle: RF kick, then this kick, then the drift, then the deposit. Since the RF kick leaves
+ * dt alone, the deposit of pass n is the line density the kick of pass n+1 needs: one memory pass per turn.
+ */
+export interface InducedParams {
+  inv: number;
+  x0: number;
+  nb: number;
+  /** Energy kick [eV] at the nb bin centres, at indices 1..nb; 0 and nb+1 repeat the edge values. Length nb + 2. */
+  readonly volts: Float64Array;
+  /** Out: [count, Σf] per cell k = 0..nb (the kernel adds to it: zero it before the pass). Length 2(nb + 2). */
+  readonly cells: Float64Array;
+  /** Out: Σ of this stage's kicks over the pass [eV]: particles of even index summed apart from odd ones, then added. */
+  sum: number;
+}
+
 /** The one-turn map kernels; both implementations give the same interface. */
 export interface TurnKernel {
   readonly impl: 'wasm' | 'js';
@@ -66,6 +88,12 @@ export interface TurnKernel {
   freeColumns(cols: Columns): void;
   /** Fused kick + drift over [0, n); returns how many particles are now outside `limits` (NaN counts as outside). */
   kickDrift(cols: Columns, n: number, kick: KickParams, drift: DriftParams, limits: Limits): number;
+  /** Tables of an induced-voltage stage for nb bins (zeroed; wasm: views into its memory, re-pointed on a grow). */
+  allocInduced(nb: number): InducedParams;
+  /** Return tables from allocInduced to the kernel (no-op for js). */
+  freeInduced(p: InducedParams): void;
+  /** As kickDrift with the induced-voltage stage between kick and drift and the deposit after it (see InducedParams). */
+  kickDriftInduced(cols: Columns, n: number, kick: KickParams, induced: InducedParams, drift: DriftParams, limits: Limits): number;
   /** Kick only, over [0, n). */
   kick(cols: Columns, n: number, kick: KickParams): void;
   /** Drift only, over [0, n); returns how many particles are now outside `limits`. */
@@ -114,4 +142,16 @@ export function compactLost(cols: Columns, n: number, limits: Limits): number {
     i--; // re-visit the particle swapped in
   }
   return n;
+}
+
+/** Throws if an induced stage cannot be used (its tables must hold nb + 2 and 2(nb + 2) entries). */
+export function checkInduced(p: InducedParams): void {
+  if (!(Number.isInteger(p.nb) && p.nb >= 1 && p.volts.length >= p.nb + 2 && p.cells.length >= 2 * (p.nb + 2)))
+    throw new Error(`induced stage: nb must be an integer ≥ 1 with tables of nb + 2 and 2(nb + 2) entries, got nb = ${p.nb}`);
+  if (!(Number.isFinite(p.inv) && Number.isFinite(p.x0))) throw new Error(`induced stage: grid inv = ${p.inv}, x0 = ${p.x0} must be finite`);
+}
+
+/** Zeroed tables of an induced stage for nb bins, in ordinary arrays. */
+export function makeInducedParams(nb: number): InducedParams {
+  return { inv: 0, x0: 0, nb, volts: new Float64Array(nb + 2), cells: new Float64Array(2 * (nb + 2)), sum: 0 };
 }

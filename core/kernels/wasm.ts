@@ -7,7 +7,7 @@
 // in place. Arrays kept elsewhere (e.g. a Bunch made with bunchFrom(cols.dt, cols.dE)) are NOT updated:
 // allocate everything first, or rebuild such wrappers from the Columns object after an allocation.
 // Columns not allocated by this kernel are rejected with an error (the kernel cannot reach other memory).
-import { checkColumns, checkKick, MAX_RF, type Columns, type DriftParams, type KickParams, type Limits, type TurnKernel } from './types.ts';
+import { checkColumns, checkInduced, checkKick, MAX_RF, type Columns, type DriftParams, type InducedParams, type KickParams, type Limits, type TurnKernel } from './types.ts';
 import { buildKernelModule, HEAP_BASE, kernelName, PARAM, SCRATCH } from './wasmModule.ts';
 
 // The few WebAssembly declarations we need (core compiles with lib ES2022, which has none).
@@ -102,16 +102,22 @@ function kernelOver(memory: WasmMemory, instance: WasmInstance): WasmTurnKernel 
   const kickFn = [0, 1, 2, 3, 4].map((k) => (k === 0 ? null : fn(kernelName(k, 'none'))));
   const kdLinear = [0, 1, 2, 3, 4].map((k) => fn(kernelName(k, 'linear')));
   const kdExact = [0, 1, 2, 3, 4].map((k) => fn(kernelName(k, 'exact')));
+  const kdiLinear = [0, 1, 2, 3, 4].map((k) => (k === 0 ? null : fn(kernelName(k, 'linear', true))));
+  const kdiExact = [0, 1, 2, 3, 4].map((k) => (k === 0 ? null : fn(kernelName(k, 'exact', true))));
 
   let buffer = memory.buffer;
   let params = new Float64Array(buffer, 0, HEAP_BASE / 8);
+  let iparams = new Int32Array(buffer, 0, HEAP_BASE / 4);
   const live = new Map<Columns, Block>();
+  const liveInduced = new Map<InducedParams, Block>(); // volts at offset, cells 16·⌈(nb+2)/2⌉ bytes further
   const free: Block[] = []; // sorted by offset, coalesced
   let top = HEAP_BASE;
 
   function refresh(): void {
     buffer = memory.buffer;
     params = new Float64Array(buffer, 0, HEAP_BASE / 8);
+    iparams = new Int32Array(buffer, 0, HEAP_BASE / 4);
+    for (const [p, b] of liveInduced) inducedViews(p, b);
     for (const [cols, b] of live) {
       cols.dt = new Float64Array(buffer, b.offset, b.n);
       cols.dE = new Float64Array(buffer, b.offset + b.bytes / 2, b.n);
@@ -190,6 +196,14 @@ function kernelOver(memory: WasmMemory, instance: WasmInstance): WasmTurnKernel 
     p[PARAM.DE_MAX / 8] = limits.dEmax;
   }
 
+  // Re-point the tables of an induced stage (fields are readonly for users of the interface, not for their owner).
+  function inducedViews(p: InducedParams, b: Block): void {
+    const w = p as { volts: Float64Array; cells: Float64Array };
+    w.volts = new Float64Array(buffer, b.offset, b.n + 2);
+    w.cells = new Float64Array(buffer, b.offset + voltsBytes(b.n), 2 * (b.n + 2));
+  }
+  const voltsBytes = (nb: number) => 16 * Math.ceil((nb + 2) / 2);
+
   const kernel = {
     impl: 'wasm' as const,
     memory,
@@ -217,6 +231,44 @@ function kernelOver(memory: WasmMemory, instance: WasmInstance): WasmTurnKernel 
       writeDrift(drift, limits);
       const f = drift.kind === 'linear' ? kdLinear[kick.count] : kdExact[kick.count];
       return f(dt, cols.dE.byteOffset, n);
+    },
+    allocInduced(nb: number): InducedParams {
+      if (!(Number.isInteger(nb) && nb >= 1)) throw new Error(`induced stage: bins must be an integer ≥ 1, got ${nb}`);
+      const bytes = voltsBytes(nb) + 16 * (nb + 2);
+      const offset = take(bytes);
+      if (memory.buffer !== buffer) refresh();
+      const b = { offset, bytes, n: nb };
+      const p: InducedParams = { inv: 0, x0: 0, nb, volts: new Float64Array(0), cells: new Float64Array(0), sum: 0 };
+      inducedViews(p, b);
+      p.volts.fill(0);
+      p.cells.fill(0);
+      liveInduced.set(p, b);
+      return p;
+    },
+    freeInduced(p: InducedParams): void {
+      const b = liveInduced.get(p);
+      if (!b) throw new Error('freeInduced: these tables are not live allocations of this kernel');
+      liveInduced.delete(p);
+      release(b);
+    },
+    kickDriftInduced(cols: Columns, n: number, kick: KickParams, ind: InducedParams, drift: DriftParams, limits: Limits): number {
+      const dt = ptrs(cols, n);
+      checkInduced(ind);
+      const b = liveInduced.get(ind);
+      if (!b || ind.nb !== b.n || ind.volts.buffer !== buffer)
+        throw new Error('induced stage: its tables are not this kernel\'s: make them with kernel.allocInduced(nb), same nb');
+      writeKick(kick);
+      writeDrift(drift, limits);
+      const p = params, ip = iparams;
+      p[PARAM.IND_INV / 8] = ind.inv;
+      p[PARAM.IND_X0 / 8] = ind.x0;
+      p[PARAM.IND_TOP / 8] = ind.nb + 0.5;
+      ip[PARAM.IND_NB / 4] = ind.nb;
+      ip[PARAM.IND_VOLTS / 4] = ind.volts.byteOffset;
+      ip[PARAM.IND_CELLS / 4] = ind.cells.byteOffset;
+      const out = (drift.kind === 'linear' ? kdiLinear : kdiExact)[kick.count]!(dt, cols.dE.byteOffset, n);
+      ind.sum = p[PARAM.IND_SUM / 8];
+      return out;
     },
     kick(cols: Columns, n: number, kick: KickParams): void {
       const dt = ptrs(cols, n);

@@ -10,6 +10,8 @@
 //   kick_<k>            k = 1..4 RF systems, returns 0
 //   drift_linear/exact  returns the number of particles outside the limits
 //   kd_linear_<k>, kd_exact_<k>   fused kick + drift, returns the number outside the limits
+//   kdi_linear_<k>, kdi_exact_<k> the same with the induced-voltage stage (kick, then deposit after the drift;
+//                       types.ts InducedParams); writes the stage's kick sum to IND_SUM
 // Pairs [2j, 2j+1] run through v128 loads/stores; an odd last particle goes through the same code with
 // v128.load64_zero / v128.store64_lane, so the particle at index n (a lost one) is never touched.
 // The loss count: the lane mask of "inside" (all ones) is subtracted from an i64x2 counter, no branch.
@@ -24,6 +26,8 @@ import { INV_PI, PI_HI, PI_LO, ROUND_MAGIC, SIN_COEFFS } from './sine.ts';
 export const PARAM = {
   A: 0, W: 32, PHI: 64, SYNC: 96, SLIP: 104, PERIOD: 112, INV_ES: 120, INV_B2: 128, INV_B2G2: 136,
   AL0: 144, AL1: 152, AL2: 160, DT_MAX: 168, DE_MIN: 176, DE_MAX: 184,
+  IND_INV: 192, IND_X0: 200, IND_TOP: 208, IND_SUM: 216, // induced stage: f64 (TOP = nb + 0.5; SUM written back)
+  IND_NB: 224, IND_VOLTS: 228, IND_CELLS: 232, // induced stage: i32 (nb, byte addresses of the tables)
   ZERO_I32: 440, // an i32 0 read at entry as the base address of the block
 } as const;
 /** Two scratch particles (dt at SCRATCH, dE at SCRATCH + 16) used by syncGain. */
@@ -37,7 +41,8 @@ const CHUNK = 512;
 export type DriftKind = 'none' | 'linear' | 'exact';
 
 /** Exported function name for a kick of `rf` systems (0 = none) followed by a drift of `drift` kind. */
-export function kernelName(rf: number, drift: DriftKind): string {
+export function kernelName(rf: number, drift: DriftKind, induced = false): string {
+  if (induced) return `kdi_${drift}_${rf}`;
   if (drift === 'none') return `kick_${rf}`;
   return rf === 0 ? `drift_${drift}` : `kd_${drift}_${rf}`;
 }
@@ -98,18 +103,31 @@ const i32 = { add: bin([0x6a]), sub: bin([0x6b]), and: bin([0x71]), shl: bin([0x
 const v128load = (addr: Code): Code => [addr, simd(0x00), 4, 0];
 const v128store = (addr: Code, v: Code): Code => [addr, v, simd(0x0b), 4, 0];
 const load64zero = (addr: Code): Code => [addr, simd(0x5d), 3, 0];
+const v128loadU = (addr: Code): Code => [addr, simd(0x00), 3, 0]; // 8-byte aligned
+const shuffle = (a: Code, b: Code, lanes: number[]): Code => [a, b, simd(0x0d), lanes];
+const LO_LANES = [0, 1, 2, 3, 4, 5, 6, 7], HI_LANES = [8, 9, 10, 11, 12, 13, 14, 15];
+const plus16 = (l: number[]) => l.map((x) => x + 16);
+const i32x4 = {
+  truncSatF64 : un(simd(0xfc)), // i32x4.trunc_sat_f64x2_s_zero: NaN → 0, saturating
+  min: bin(simd(0xb6)), max: bin(simd(0xb8)), lane: (a: Code, j: number): Code => [a, simd(0x1b), j],
+};
+const f64x2fromI32 = un(simd(0xfe)); // f64x2.convert_low_i32x4_s
+const f64x2lt = bin(simd(0x49));
+const f64x2lane = (a: Code, j: number): Code => [a, simd(0x21), j];
 const store64lane0 = (addr: Code, v: Code): Code => [addr, v, simd(0x5b), 3, 0, 0];
 
 // One kernel function. Locals: params 0..2, then i32 locals, then v128 locals (declared in that order).
-function kernelBody(rf: number, drift: DriftKind): Code {
+function kernelBody(rf: number, drift: DriftKind, induced = false): Code {
   const DT = 0, DE = 1, N = 2;
   let next = 3;
   const PT = next++, PE = next++, PEND = next++, TAIL = next++, BASE = next++, QT = next++, QE = next++, CEND = next++; // i32
+  const VB = next++, CB = next++, ADDR = next++; // i32, induced stage
   const nI32 = next - 3;
   const firstV = next;
   const v = () => next++;
   const T = v(), E = v(), X = v(), K = v(), KB = v(), R = v(), R2 = v(), ACC = v(), MASK = v(), CNT = v();
   const EPS = v(), WW = v(), DELTA = v();
+  const XI = v(), KI = v(), FI = v(), IN = v(), LA = v(), LB = v(), KV = v(), SUMV = v(), NBV = v(); // induced stage
   const nV128 = next - firstV;
   const { add, sub, mul, div } = f64x2;
   const g = get;
@@ -120,7 +138,40 @@ function kernelBody(rf: number, drift: DriftKind): Code {
   const SYNC = P(PARAM.SYNC), SLIP = P(PARAM.SLIP), PERIOD = P(PARAM.PERIOD), INVES = P(PARAM.INV_ES), INVB2 = P(PARAM.INV_B2);
   const INVB2G2 = P(PARAM.INV_B2G2), AL0 = P(PARAM.AL0), AL1 = P(PARAM.AL1), AL2 = P(PARAM.AL2);
   const DTMAX = P(PARAM.DT_MAX), DEMIN = P(PARAM.DE_MIN), DEMAX = P(PARAM.DE_MAX);
+  const i32load = (offset: number): Code => [get(BASE), 0x28, 2, uleb(offset)];
   const setup: Code[] = [set(BASE, [i32c(0), 0x28, 2, uleb(PARAM.ZERO_I32)])]; // i32.load
+  if (induced) setup.push(set(VB, i32load(PARAM.IND_VOLTS)), set(CB, i32load(PARAM.IND_CELLS)), set(NBV, [get(BASE), simd(0x09), 2, uleb(PARAM.IND_NB)]));
+
+  // Induced stage (types.ts InducedParams): grid coordinate x of the pair in T, its cell k (clamped to [0, nb] so
+  // every table access stays inside, NaN → 0), f = x − k, and IN = inside the window (and `extra`, a lane mask).
+  const HALF = splat(0.5);
+  const LANE0 = [simd(0x0c), [0xff, 0xff, 0xff, 0xff, 0xff, 0xff, 0xff, 0xff, 0, 0, 0, 0, 0, 0, 0, 0]]; // v128.const
+  const gridPair = (extra: Code | null): Code[] => [
+    set(XI, sub(mul(g(T), P(PARAM.IND_INV)), P(PARAM.IND_X0))),
+    set(KI, i32x4.min(i32x4.max(i32x4.truncSatF64(g(XI)), ZERO), g(NBV))),
+    set(FI, sub(g(XI), f64x2fromI32(g(KI)))),
+    set(IN, v128and(f64x2.ge(g(XI), HALF), f64x2lt(g(XI), P(PARAM.IND_TOP)))),
+    extra ? set(IN, v128and(g(IN), extra)) : [],
+  ];
+  // dE += a + f·(b − a) with (a, b) = volts[k], volts[k+1]: one unaligned load per particle, lanes regrouped.
+  const inducedKick = (tail: boolean): Code[] => [
+    ...gridPair(tail ? LANE0 : null),
+    set(LA, v128loadU(i32.add(g(VB), i32.shl(i32x4.lane(g(KI), 0), i32c(3))))),
+    set(LB, v128loadU(i32.add(g(VB), i32.shl(i32x4.lane(g(KI), 1), i32c(3))))),
+    set(KV, shuffle(g(LA), g(LB), [...LO_LANES, ...plus16(LO_LANES)])), // (a0, a1)
+    set(LB, shuffle(g(LA), g(LB), [...HI_LANES, ...plus16(HI_LANES)])), // (b0, b1)
+    set(KV, v128and(add(g(KV), mul(g(FI), sub(g(LB), g(KV)))), g(IN))),
+    set(E, add(g(E), g(KV))),
+    set(SUMV, add(g(SUMV), g(KV))),
+  ];
+  // cells[k] += (1, f) for a particle inside the window and the limits; lane 0 then lane 1 (they may share a cell).
+  const depositLane = (j: number): Code[] => [
+    set(ADDR, i32.add(g(CB), i32.shl(i32x4.lane(g(KI), j), i32c(4)))),
+    v128store(g(ADDR), add(v128load(g(ADDR)), v128and(
+      shuffle(ONE, g(FI), [...LO_LANES, ...plus16(j === 0 ? LO_LANES : HI_LANES)]),
+      shuffle(g(IN), g(IN), j === 0 ? [...LO_LANES, ...LO_LANES] : [...HI_LANES, ...HI_LANES])))),
+  ];
+  const deposit = (tail: boolean): Code[] => [...gridPair(g(MASK)), ...depositLane(0), ...(tail ? [] : depositLane(1))];
 
   // The map for the two particles in T, E (as sinPoly and js.ts, operation for operation).
   const kickBody: Code[] = [];
@@ -167,13 +218,15 @@ function kernelBody(rf: number, drift: DriftKind): Code {
   if (drift !== 'none') body.push(set(MASK, v128and(v128and(f64x2.le(f64x2.abs(g(T)), DTMAX), f64x2.le(g(E), DEMAX)), f64x2.ge(g(E), DEMIN))));
   }
 
+  const kickLoop = [...kickBody, ...(induced ? inducedKick(false) : [])], kickTail = [...kickBody, ...(induced ? inducedKick(true) : [])];
+  const driftLoop = [...driftBody, ...(induced ? deposit(false) : [])], driftTail = [...driftBody, ...(induced ? deposit(true) : [])];
   const counting = drift !== 'none';
   const step = (p: number): Code => set(p, i32.add(g(p), i32c(16)));
   // while (pt < pend): one pair, kick and drift together
   const fusedLoop: Code[] = [
     [0x02, 0x40, ...i32.ltu(g(PT), g(PEND)), 0x45, 0x0d, 0, 0x03, 0x40], // block; br_if 0 (!(pt<pend)); loop
     set(T, v128load(g(PT))), set(E, v128load(g(PE))),
-    ...kickBody, ...driftBody,
+    ...kickLoop, ...driftLoop,
     v128store(g(PT), g(T)), v128store(g(PE), g(E)),
     counting ? set(CNT, i64x2sub(g(CNT), g(MASK))) : [],
     step(PT), step(PE),
@@ -189,13 +242,13 @@ function kernelBody(rf: number, drift: DriftKind): Code {
     set(QT, g(PT)), set(QE, g(PE)),
     [0x03, 0x40], // loop $kick
     set(T, v128load(g(QT))), set(E, v128load(g(QE))),
-    ...kickBody,
+    ...kickLoop,
     v128store(g(QE), g(E)),
     step(QT), step(QE),
     [...i32.ltu(g(QT), g(CEND)), 0x0d, 0, 0x0b], // br_if $kick; end
     [0x03, 0x40], // loop $drift
     set(T, v128load(g(PT))), set(E, v128load(g(PE))),
-    ...driftBody,
+    ...driftLoop,
     v128store(g(PT), g(T)),
     set(CNT, i64x2sub(g(CNT), g(MASK))),
     step(PT), step(PE),
@@ -210,10 +263,12 @@ function kernelBody(rf: number, drift: DriftKind): Code {
     // odd last particle: lane 0 only
     [...i32.and(g(N), i32c(1)), 0x04, 0x40],
     set(T, load64zero(g(PT))), set(E, load64zero(g(PE))),
-    ...kickBody, ...driftBody,
+    ...kickTail, ...driftTail,
     store64lane0(g(PT), g(T)), store64lane0(g(PE), g(E)),
     counting ? set(TAIL, i32.wrapI64(i64x2lane(g(MASK), 0))) : [], // −1 inside, 0 outside
     [0x0b],
+    // the induced kicks' sum: lane 0 (even indices) + lane 1 (odd), f64.store
+    induced ? [get(BASE), f64x2lane(g(SUMV), 0), f64x2lane(g(SUMV), 1), 0xa0, 0x39, 3, uleb(PARAM.IND_SUM)] : [],
     // return n − inside
     counting
       ? i32.add(i32.sub(g(N), i32.add(i32.wrapI64(i64x2lane(g(CNT), 0)), i32.wrapI64(i64x2lane(g(CNT), 1)))), g(TAIL))
@@ -225,12 +280,13 @@ function kernelBody(rf: number, drift: DriftKind): Code {
 }
 
 /** All kernels as [name, rf, drift]. */
-export function kernelList(): [string, number, DriftKind][] {
-  const list: [string, number, DriftKind][] = [];
-  for (let rf = 1; rf <= 4; rf++) list.push([kernelName(rf, 'none'), rf, 'none']);
+export function kernelList(): [string, number, DriftKind, boolean][] {
+  const list: [string, number, DriftKind, boolean][] = [];
+  for (let rf = 1; rf <= 4; rf++) list.push([kernelName(rf, 'none'), rf, 'none', false]);
   for (const d of ['linear', 'exact'] as const) {
-    list.push([kernelName(0, d), 0, d]);
-    for (let rf = 1; rf <= 4; rf++) list.push([kernelName(rf, d), rf, d]);
+    list.push([kernelName(0, d), 0, d, false]);
+    for (let rf = 1; rf <= 4; rf++) list.push([kernelName(rf, d), rf, d, false]);
+    for (let rf = 1; rf <= 4; rf++) list.push([kernelName(rf, d, true), rf, d, true]);
   }
   return list;
 }
@@ -243,6 +299,6 @@ export function buildKernelModule(options: { shared?: boolean; maxPages?: number
   const imports = section(2, vec([[...str('env'), ...str('memory'), 0x02, ...limits]]));
   const funcs = section(3, vec(list.map(() => [0])));
   const exports = section(7, vec(list.map(([name], i) => [...str(name), 0x00, ...uleb(i)])));
-  const code = section(10, vec(list.map(([, rf, d]) => kernelBody(rf, d))));
+  const code = section(10, vec(list.map(([, rf, d, ind]) => kernelBody(rf, d, ind))));
   return new Uint8Array(flat([0x00, 0x61, 0x73, 0x6d, 0x01, 0x00, 0x00, 0x00, type, imports, funcs, exports, code]));
 }
