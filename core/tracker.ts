@@ -110,9 +110,8 @@ export class Tracker {
         induced.prepare(b, cur, stage);
         this.stepper.advance();
         fast.setDrift(cur);
-        const passed = b.n;
         fast.applyKickDriftInduced(b, stage);
-        induced.settle(b, passed, stage);
+        induced.settle(b, stage);
         return;
       }
       if (this.physics.length + extras.length === 0) {

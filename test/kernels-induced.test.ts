@@ -8,7 +8,7 @@ import { makeBunch } from '../core/bunch.ts';
 import { depositLinear, kickLinear, type BinGrid } from '../core/collective/lineDensity.ts';
 import { PROTON_MASS_EV } from '../core/constants.ts';
 import {
-  compactLost, createJsKernel, createWasmKernel, makeDriftParams, makeKickParams, type Columns, type InducedParams, type TurnKernel,
+  compactLost, createJsKernel, depositLost, createWasmKernel, makeDriftParams, makeKickParams, type Columns, type InducedParams, type TurnKernel,
 } from '../core/kernels/index.ts';
 import { generateBeam } from '../core/beam/index.ts';
 import { machineAtStart } from '../core/machine.ts';
@@ -90,14 +90,17 @@ describe('induced-voltage stage in the turn kernels', () => {
         const p = stage(js), kick = kickOf(rf), drift = driftOf(kind);
         const outFused = js.kickDriftInduced(a, n, kick, p, drift, limits);
         js.kick(b, n, kick);
-        const sum = kickLinear(b.dt, b.dE, n, grid, volts);
+        kickLinear(b.dt, b.dE, n, grid, volts);
         const outSep = js.drift(b, n, drift, limits);
         expect(outFused).toBe(outSep);
         expect(outFused).toBeGreaterThan(0); // the case has losses
         expect(a.dt).toEqual(b.dt);
         expect(a.dE).toEqual(b.dE);
-        expect(Math.abs(p.sum - sum)).toBeLessThanOrEqual(1e-12 * n * 2e3); // summation order differs
+        // The lost particles' deposits come out again (as the tracker does after a pass with losses).
+        const aliveFused = compactLost(a, n, limits);
+        depositLost(a.dt, aliveFused, n, p);
         const alive = compactLost(b, n, limits);
+        expect(aliveFused).toBe(alive);
         const q = new Float64Array(nb);
         const outsideWindow = depositLinear(b.dt, alive, grid, 1, q);
         const mine = folded(p.cells);
@@ -112,7 +115,7 @@ describe('induced-voltage stage in the turn kernels', () => {
     }
   });
 
-  it('wasm gives the same bits as js (columns, losses, cells, kick sum), odd and even counts', () => {
+  it('wasm gives the same bits as js (columns, losses, cells), odd and even counts', () => {
     const js = createJsKernel(), wasm = createWasmKernel();
     for (const n of [0, 1, 2, 7, 1001]) {
       for (const rf of [1, 2, 3, 4]) {
@@ -126,8 +129,7 @@ describe('induced-voltage stage in the turn kernels', () => {
             pa.cells.fill(0);
             pb.cells.fill(0);
             expect(wasm.kickDriftInduced(b, n, kickOf(rf), pb, driftOf(kind), limits)).toBe(js.kickDriftInduced(a, n, kickOf(rf), pa, driftOf(kind), limits));
-            expect(pb.sum).toBe(pa.sum);
-            expect(pb.cells).toEqual(pa.cells);
+            expect(pb.cells.subarray(0, 2 * (nb + 1))).toEqual(pa.cells.subarray(0, 2 * (nb + 1))); // cell nb + 1: wasm's scratch
           }
           expect(b.dt).toEqual(a.dt);
           expect(b.dE).toEqual(a.dE);

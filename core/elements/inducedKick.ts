@@ -28,8 +28,8 @@ export interface InducedKickElement extends Element {
   readonly bins: number;
   /** Fused path, before the kernel pass of turn n (state m): V_ind from the line density of dt now, into p. */
   prepare(b: Bunch, m: MachineState, p: InducedParams): void;
-  /** Fused path, after the pass (and the removal of lost particles): its deposit is the next turn's line density. */
-  settle(b: Bunch, passed: number, p: InducedParams): void;
+  /** Fused path, after the pass and the removal of lost particles (and of their deposits): the next turn's line density. */
+  settle(b: Bunch, p: InducedParams): void;
 }
 
 /** Induced-voltage kick of an intensity model; `grid` fixes the window (else chosen from the bunch at the first pass). */
@@ -85,11 +85,15 @@ export function inducedKick(model: IntensityModel, grid?: { e0: number; delta: n
       p.inv = 1 / g.delta;
       p.x0 = g.e0 * p.inv - 0.5; // as depositLinear and kickLinear: bin centre i at x = i + 1
       p.cells.fill(0);
+      // The kick interpolates with the deposit's weights, so Σ kicks = Σ_bins (q/w)·Z·V (types.ts InducedParams).
+      const w = model.bunchCharge / b.total;
+      let sum = 0;
+      for (let i = 0; i < nb; i++) sum += q[i] * out[i + 1];
+      meanKick = b.n > 0 && w !== 0 ? sum / w / b.n : 0;
     },
-    settle(b: Bunch, passed: number, p: InducedParams): void {
+    settle(b: Bunch, p: InducedParams): void {
       const inside = foldCells(p.cells, p.nb, model.bunchCharge / b.total, q);
       outside = b.n - inside;
-      meanKick = passed > 0 ? p.sum / passed : 0;
       current = true;
     },
   };

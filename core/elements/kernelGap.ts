@@ -5,7 +5,7 @@
 // (relative error < 5.4e-9; the kick still depends on dt only, so the map stays exactly area-preserving), and
 // the loss check after the pass, so a lost particle has been drifted once more before it is set aside.
 import type { Bunch } from '../bunch.ts';
-import { compactLost, makeDriftParams, makeKickParams, type Columns, type InducedParams, type Limits, type TurnKernel } from '../kernels/index.ts';
+import { compactLost, depositLost, makeDriftParams, makeKickParams, type Columns, type InducedParams, type Limits, type TurnKernel } from '../kernels/index.ts';
 import type { MachineState } from '../machine.ts';
 import { dEAtDelta, type DriftMode } from './drift.ts';
 
@@ -76,6 +76,9 @@ export class KernelGap {
 
   /** Fused kick, induced-voltage stage, drift and deposit in one pass, then set the lost particles aside. */
   applyKickDriftInduced(b: Bunch, ind: InducedParams): void {
-    if (this.kernel.kickDriftInduced(this.cols, b.n, this.kick, ind, this.drift, this.limits) > 0) b.n = compactLost(this.cols, b.n, this.limits);
+    if (this.kernel.kickDriftInduced(this.cols, b.n, this.kick, ind, this.drift, this.limits) === 0) return;
+    const before = b.n;
+    b.n = compactLost(this.cols, b.n, this.limits);
+    depositLost(this.cols.dt, b.n, before, ind); // lost particles take their charge with them
   }
 }

@@ -182,15 +182,15 @@ function kd1Exact(dt: Float64Array, dE: Float64Array, n: number, sin: Sine, a0: 
 
 // Kick, induced-voltage kick, drift, deposit (types.ts InducedParams), any count of RF systems, either drift.
 // Operation for operation as the wasm kdi_* kernels: the RF sum in the same order, the interpolation as
-// a + f·(b − a), the kick sums split by the parity of the index (the two SIMD lanes).
+// a + f·(b − a), the deposit in index order.
 function kdInduced(dt: Float64Array, dE: Float64Array, n: number, sin: Sine, kick: KickParams, ind: InducedParams, drift: DriftParams, limits: Limits): number {
   const c = kick.count, A = kick.amplitude, w = kick.omega, p = kick.phase, sync = kick.dEsync;
   const linear = drift.kind === 'linear', slip = drift.slip, period = drift.period;
   const invEs = 1 / drift.Es, invB2 = 1 / drift.beta2, invB2G2 = 1 / drift.beta2 / drift.gamma2;
   const al0 = drift.alpha0, al1 = drift.alpha1, al2 = drift.alpha2;
   const dtMax = limits.dtMax, hi = limits.dEmax, lo = limits.dEmin ?? -limits.dEmax;
-  const inv = ind.inv, x0 = ind.x0, nb = ind.nb, top = nb + 0.5, v = ind.volts, cells = ind.cells;
-  let out = 0, s0 = 0, s1 = 0;
+  const inv = ind.inv, x0 = ind.x0, top = ind.nb + 0.5, v = ind.volts, cells = ind.cells;
+  let out = 0;
   for (let i = 0; i < n; i++) {
     let t = dt[i];
     let acc = A[0] * sin(p[0] + w[0] * t);
@@ -204,15 +204,10 @@ function kdInduced(dt: Float64Array, dE: Float64Array, n: number, sin: Sine, kic
       kk = a + (x - j) * (v[j + 1] - a);
     }
     e = e + kk;
-    if ((i & 1) === 0) s0 = s0 + kk;
-    else s1 = s1 + kk;
     t = t + (linear ? slip * e : period * exactRelative(e, invEs, invB2, invB2G2, al0, al1, al2));
     dE[i] = e;
     dt[i] = t;
-    if (!(Math.abs(t) <= dtMax && e <= hi && e >= lo)) {
-      out++;
-      continue;
-    }
+    if (!(Math.abs(t) <= dtMax && e <= hi && e >= lo)) out++;
     const y = t * inv - x0;
     if (y >= 0.5 && y < top) {
       const j = y | 0;
@@ -220,6 +215,5 @@ function kdInduced(dt: Float64Array, dE: Float64Array, n: number, sin: Sine, kic
       cells[2 * j + 1] += y - j;
     }
   }
-  ind.sum = s0 + s1;
   return out;
 }

@@ -62,10 +62,12 @@ export interface Limits {
  * x = dt·inv − x0 puts the centre of bin i at x = i + 1; the window is x ∈ [0.5, nb + 0.5) and cell k = ⌊x⌋ spans
  * the centres k and k+1 (cells 0 and nb are the outer half bins).
  *   kick, with dt before the drift:  dE += volts[k] + f·(volts[k+1] − volts[k]), f = x − k; 0 outside the window
- *   deposit, with dt after the drift, particles inside the window and the limits only:
+ *   deposit, with dt after the drift, every particle inside the window (lost ones too: see depositLost):
  *                                    cells[2k] += 1, cells[2k+1] += f   (the caller folds them into bins)
  * The kick order per particle: RF kick, then this kick, then the drift, then the deposit. Since the RF kick leaves
- * dt alone, the deposit of pass n is the line density the kick of pass n+1 needs: one memory pass per turn.
+ * dt alone, the deposit of pass n is the line density the kick of pass n+1 needs. The kernels run a chunk of
+ * particles (in L1) through each step in turn: one pass over memory per turn.
+ * The stage's total kick is Σ_bins (deposit weight)·volts, from the deposit of the kick's dt: the kernels skip it.
  */
 export interface InducedParams {
   inv: number;
@@ -73,10 +75,8 @@ export interface InducedParams {
   nb: number;
   /** Energy kick [eV] at the nb bin centres, at indices 1..nb; 0 and nb+1 repeat the edge values. Length nb + 2. */
   readonly volts: Float64Array;
-  /** Out: [count, Σf] per cell k = 0..nb (the kernel adds to it: zero it before the pass). Length 2(nb + 2). */
+  /** Out: [count, Σf] per cell k = 0..nb (the kernel adds to it: zero it before the pass); cell nb + 1 is scratch. Length 2(nb + 2). */
   readonly cells: Float64Array;
-  /** Out: Σ of this stage's kicks over the pass [eV]: particles of even index summed apart from odd ones, then added. */
-  sum: number;
 }
 
 /** The one-turn map kernels; both implementations give the same interface. */
@@ -153,5 +153,17 @@ export function checkInduced(p: InducedParams): void {
 
 /** Zeroed tables of an induced stage for nb bins, in ordinary arrays. */
 export function makeInducedParams(nb: number): InducedParams {
-  return { inv: 0, x0: 0, nb, volts: new Float64Array(nb + 2), cells: new Float64Array(2 * (nb + 2)), sum: 0 };
+  return { inv: 0, x0: 0, nb, volts: new Float64Array(nb + 2), cells: new Float64Array(2 * (nb + 2)) };
+}
+
+/** Take the deposits of dt[from..to) (particles a pass deposited, then set aside as lost) out of the cells again. */
+export function depositLost(dt: Float64Array, from: number, to: number, p: InducedParams): void {
+  const inv = p.inv, x0 = p.x0, top = p.nb + 0.5, cells = p.cells;
+  for (let i = from; i < to; i++) {
+    const x = dt[i] * inv - x0;
+    if (!(x >= 0.5 && x < top)) continue;
+    const k = x | 0;
+    cells[2 * k] -= 1;
+    cells[2 * k + 1] -= x - k;
+  }
 }

@@ -238,7 +238,7 @@ function kernelOver(memory: WasmMemory, instance: WasmInstance): WasmTurnKernel 
       const offset = take(bytes);
       if (memory.buffer !== buffer) refresh();
       const b = { offset, bytes, n: nb };
-      const p: InducedParams = { inv: 0, x0: 0, nb, volts: new Float64Array(0), cells: new Float64Array(0), sum: 0 };
+      const p: InducedParams = { inv: 0, x0: 0, nb, volts: new Float64Array(0), cells: new Float64Array(0) };
       inducedViews(p, b);
       p.volts.fill(0);
       p.cells.fill(0);
@@ -266,9 +266,7 @@ function kernelOver(memory: WasmMemory, instance: WasmInstance): WasmTurnKernel 
       ip[PARAM.IND_NB / 4] = ind.nb;
       ip[PARAM.IND_VOLTS / 4] = ind.volts.byteOffset;
       ip[PARAM.IND_CELLS / 4] = ind.cells.byteOffset;
-      const out = (drift.kind === 'linear' ? kdiLinear : kdiExact)[kick.count]!(dt, cols.dE.byteOffset, n);
-      ind.sum = p[PARAM.IND_SUM / 8];
-      return out;
+      return (drift.kind === 'linear' ? kdiLinear : kdiExact)[kick.count]!(dt, cols.dE.byteOffset, n);
     },
     kick(cols: Columns, n: number, kick: KickParams): void {
       const dt = ptrs(cols, n);

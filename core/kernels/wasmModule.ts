@@ -11,7 +11,7 @@
 //   drift_linear/exact  returns the number of particles outside the limits
 //   kd_linear_<k>, kd_exact_<k>   fused kick + drift, returns the number outside the limits
 //   kdi_linear_<k>, kdi_exact_<k> the same with the induced-voltage stage (kick, then deposit after the drift;
-//                       types.ts InducedParams); writes the stage's kick sum to IND_SUM
+//                       types.ts InducedParams)
 // Pairs [2j, 2j+1] run through v128 loads/stores; an odd last particle goes through the same code with
 // v128.load64_zero / v128.store64_lane, so the particle at index n (a lost one) is never touched.
 // The loss count: the lane mask of "inside" (all ones) is subtracted from an i64x2 counter, no branch.
@@ -26,7 +26,7 @@ import { INV_PI, PI_HI, PI_LO, ROUND_MAGIC, SIN_COEFFS } from './sine.ts';
 export const PARAM = {
   A: 0, W: 32, PHI: 64, SYNC: 96, SLIP: 104, PERIOD: 112, INV_ES: 120, INV_B2: 128, INV_B2G2: 136,
   AL0: 144, AL1: 152, AL2: 160, DT_MAX: 168, DE_MIN: 176, DE_MAX: 184,
-  IND_INV: 192, IND_X0: 200, IND_TOP: 208, IND_SUM: 216, // induced stage: f64 (TOP = nb + 0.5; SUM written back)
+  IND_INV: 192, IND_X0: 200, IND_TOP: 208, // induced stage: f64 (TOP = nb + 0.5)
   IND_NB: 224, IND_VOLTS: 228, IND_CELLS: 232, // induced stage: i32 (nb, byte addresses of the tables)
   ZERO_I32: 440, // an i32 0 read at entry as the base address of the block
 } as const;
@@ -90,7 +90,7 @@ const i32c = (v: number): Code => [0x41, sleb(v)];
 const bin = (op: Code) => (a: Code, b: Code): Code => [a, b, op];
 const un = (op: Code) => (a: Code): Code => [a, op];
 const f64x2 = {
-  max: bin(simd(0xf5)), abs: un(simd(0xec)), sqrt: un(simd(0xef)), nearest: un(simd(0x94)),
+  max: bin(simd(0xf5)), floor: un(simd(0x75)), abs: un(simd(0xec)), sqrt: un(simd(0xef)), nearest: un(simd(0x94)),
   add: bin(simd(0xf0)), sub: bin(simd(0xf1)), mul: bin(simd(0xf2)), div: bin(simd(0xf3)),
   le: bin(simd(0x4b)), ge: bin(simd(0x4c)),
 };
@@ -108,12 +108,11 @@ const shuffle = (a: Code, b: Code, lanes: number[]): Code => [a, b, simd(0x0d), 
 const LO_LANES = [0, 1, 2, 3, 4, 5, 6, 7], HI_LANES = [8, 9, 10, 11, 12, 13, 14, 15];
 const plus16 = (l: number[]) => l.map((x) => x + 16);
 const i32x4 = {
-  truncSatF64 : un(simd(0xfc)), // i32x4.trunc_sat_f64x2_s_zero: NaN → 0, saturating
-  min: bin(simd(0xb6)), max: bin(simd(0xb8)), lane: (a: Code, j: number): Code => [a, simd(0x1b), j],
+  min: bin(simd(0xb6)), max: bin(simd(0xb8)), add: bin(simd(0xae)), lane: (a: Code, j: number): Code => [a, simd(0x1b), j],
+  shl: (a: Code, bits: number): Code => [a, i32c(bits), simd(0xab)],
 };
-const f64x2fromI32 = un(simd(0xfe)); // f64x2.convert_low_i32x4_s
+const v128bitselect = (a: Code, b: Code, c: Code): Code => [a, b, c, simd(0x52)]; // (a & c) | (b & ~c)
 const f64x2lt = bin(simd(0x49));
-const f64x2lane = (a: Code, j: number): Code => [a, simd(0x21), j];
 const store64lane0 = (addr: Code, v: Code): Code => [addr, v, simd(0x5b), 3, 0, 0];
 
 // One kernel function. Locals: params 0..2, then i32 locals, then v128 locals (declared in that order).
@@ -121,13 +120,13 @@ function kernelBody(rf: number, drift: DriftKind, induced = false): Code {
   const DT = 0, DE = 1, N = 2;
   let next = 3;
   const PT = next++, PE = next++, PEND = next++, TAIL = next++, BASE = next++, QT = next++, QE = next++, CEND = next++; // i32
-  const VB = next++, CB = next++, ADDR = next++; // i32, induced stage
+  const ADDR = next++; // i32, induced stage
   const nI32 = next - 3;
   const firstV = next;
   const v = () => next++;
   const T = v(), E = v(), X = v(), K = v(), KB = v(), R = v(), R2 = v(), ACC = v(), MASK = v(), CNT = v();
   const EPS = v(), WW = v(), DELTA = v();
-  const XI = v(), KI = v(), FI = v(), IN = v(), LA = v(), LB = v(), KV = v(), SUMV = v(), NBV = v(); // induced stage
+  const XI = v(), KI = v(), FI = v(), IN = v(), LA = v(), LB = v(), KV = v(), NBV = v(), DUMPV = v(), VBV = v(), CBV = v(); // induced stage
   const nV128 = next - firstV;
   const { add, sub, mul, div } = f64x2;
   const g = get;
@@ -140,38 +139,41 @@ function kernelBody(rf: number, drift: DriftKind, induced = false): Code {
   const DTMAX = P(PARAM.DT_MAX), DEMIN = P(PARAM.DE_MIN), DEMAX = P(PARAM.DE_MAX);
   const i32load = (offset: number): Code => [get(BASE), 0x28, 2, uleb(offset)];
   const setup: Code[] = [set(BASE, [i32c(0), 0x28, 2, uleb(PARAM.ZERO_I32)])]; // i32.load
-  if (induced) setup.push(set(VB, i32load(PARAM.IND_VOLTS)), set(CB, i32load(PARAM.IND_CELLS)), set(NBV, [get(BASE), simd(0x09), 2, uleb(PARAM.IND_NB)]));
+  const i32splat = (c: Code): Code => [c, simd(0x11)];
+  if (induced) setup.push(
+    set(VBV, i32splat(i32load(PARAM.IND_VOLTS))), set(CBV, i32splat(i32load(PARAM.IND_CELLS))),
+    set(NBV, i32splat(i32load(PARAM.IND_NB))), set(DUMPV, i32splat(i32.add(i32load(PARAM.IND_NB), i32c(1)))),
+  );
 
-  // Induced stage (types.ts InducedParams): grid coordinate x of the pair in T, its cell k (clamped to [0, nb] so
-  // every table access stays inside, NaN → 0), f = x − k, and IN = inside the window (and `extra`, a lane mask).
+  // Induced stage (types.ts InducedParams): grid coordinate x of the pair in T, its cell k = ⌊x⌋ as an integer in
+  // i32 lanes 0 and 2 (by the sine's rounding trick) clamped to [0, nb] as integers, so any x (even a NaN's bits)
+  // gives an index inside the tables; f = x − ⌊x⌋; IN = inside the window. A = table base + k·bytes, per lane.
   const HALF = splat(0.5);
-  const LANE0 = [simd(0x0c), [0xff, 0xff, 0xff, 0xff, 0xff, 0xff, 0xff, 0xff, 0, 0, 0, 0, 0, 0, 0, 0]]; // v128.const
-  const gridPair = (extra: Code | null): Code[] => [
+  const gridPair = (base: number, shift: number): Code[] => [
     set(XI, sub(mul(g(T), P(PARAM.IND_INV)), P(PARAM.IND_X0))),
-    set(KI, i32x4.min(i32x4.max(i32x4.truncSatF64(g(XI)), ZERO), g(NBV))),
-    set(FI, sub(g(XI), f64x2fromI32(g(KI)))),
+    set(FI, f64x2.floor(g(XI))),
+    set(KI, i32x4.min(i32x4.max(add(g(FI), MAGIC), ZERO), g(NBV))),
+    set(FI, sub(g(XI), g(FI))),
     set(IN, v128and(f64x2.ge(g(XI), HALF), f64x2lt(g(XI), P(PARAM.IND_TOP)))),
-    extra ? set(IN, v128and(g(IN), extra)) : [],
+    ...(shift === 4 ? [set(KI, v128bitselect(g(KI), g(DUMPV), g(IN)))] : []), // outside: to the dump cell
+    set(KI, i32x4.add(i32x4.shl(g(KI), shift), g(base))),
   ];
   // dE += a + f·(b − a) with (a, b) = volts[k], volts[k+1]: one unaligned load per particle, lanes regrouped.
-  const inducedKick = (tail: boolean): Code[] => [
-    ...gridPair(tail ? LANE0 : null),
-    set(LA, v128loadU(i32.add(g(VB), i32.shl(i32x4.lane(g(KI), 0), i32c(3))))),
-    set(LB, v128loadU(i32.add(g(VB), i32.shl(i32x4.lane(g(KI), 1), i32c(3))))),
+  const inducedKick: Code[] = [
+    ...gridPair(VBV, 3),
+    set(LA, v128loadU(i32x4.lane(g(KI), 0))),
+    set(LB, v128loadU(i32x4.lane(g(KI), 2))),
     set(KV, shuffle(g(LA), g(LB), [...LO_LANES, ...plus16(LO_LANES)])), // (a0, a1)
     set(LB, shuffle(g(LA), g(LB), [...HI_LANES, ...plus16(HI_LANES)])), // (b0, b1)
-    set(KV, v128and(add(g(KV), mul(g(FI), sub(g(LB), g(KV)))), g(IN))),
-    set(E, add(g(E), g(KV))),
-    set(SUMV, add(g(SUMV), g(KV))),
+    set(E, add(g(E), v128and(add(g(KV), mul(g(FI), sub(g(LB), g(KV)))), g(IN)))),
   ];
-  // cells[k] += (1, f) for a particle inside the window and the limits; lane 0 then lane 1 (they may share a cell).
+  // cells[k] += (1, f) for a particle inside the window, else the dump cell nb + 1 (never read); lane 0 then
+  // lane 1 (they may share a cell).
   const depositLane = (j: number): Code[] => [
-    set(ADDR, i32.add(g(CB), i32.shl(i32x4.lane(g(KI), j), i32c(4)))),
-    v128store(g(ADDR), add(v128load(g(ADDR)), v128and(
-      shuffle(ONE, g(FI), [...LO_LANES, ...plus16(j === 0 ? LO_LANES : HI_LANES)]),
-      shuffle(g(IN), g(IN), j === 0 ? [...LO_LANES, ...LO_LANES] : [...HI_LANES, ...HI_LANES])))),
+    set(ADDR, i32x4.lane(g(KI), 2 * j)),
+    v128store(g(ADDR), add(v128load(g(ADDR)), shuffle(ONE, g(FI), [...LO_LANES, ...plus16(j === 0 ? LO_LANES : HI_LANES)]))),
   ];
-  const deposit = (tail: boolean): Code[] => [...gridPair(g(MASK)), ...depositLane(0), ...(tail ? [] : depositLane(1))];
+  const deposit = (tail: boolean): Code[] => [...gridPair(CBV, 4), ...depositLane(0), ...(tail ? [] : depositLane(1))];
 
   // The map for the two particles in T, E (as sinPoly and js.ts, operation for operation).
   const kickBody: Code[] = [];
@@ -192,6 +194,7 @@ function kernelBody(rf: number, drift: DriftKind, induced = false): Code {
     body.push(set(ACC, k === 0 ? term : add(g(ACC), term)));
   }
   if (rf > 0) body.push(set(E, add(g(E), sub(g(ACC), SYNC))));
+  const limitsMask = v128and(v128and(f64x2.le(f64x2.abs(g(T)), DTMAX), f64x2.le(g(E), DEMAX)), f64x2.ge(g(E), DEMIN));
   const driftBody: Code[] = [];
   {
   const body = driftBody;
@@ -215,10 +218,10 @@ function kernelBody(rf: number, drift: DriftKind, induced = false): Code {
       set(T, add(g(T), mul(PERIOD, g(DELTA)))),
     );
   }
-  if (drift !== 'none') body.push(set(MASK, v128and(v128and(f64x2.le(f64x2.abs(g(T)), DTMAX), f64x2.le(g(E), DEMAX)), f64x2.ge(g(E), DEMIN))));
+  if (drift !== 'none') body.push(set(MASK, limitsMask));
   }
 
-  const kickLoop = [...kickBody, ...(induced ? inducedKick(false) : [])], kickTail = [...kickBody, ...(induced ? inducedKick(true) : [])];
+  const kickLoop = [...kickBody, ...(induced ? inducedKick : [])];
   const driftLoop = [...driftBody, ...(induced ? deposit(false) : [])], driftTail = [...driftBody, ...(induced ? deposit(true) : [])];
   const counting = drift !== 'none';
   const step = (p: number): Code => set(p, i32.add(g(p), i32c(16)));
@@ -232,27 +235,40 @@ function kernelBody(rf: number, drift: DriftKind, induced = false): Code {
     step(PT), step(PE),
     [...i32.ltu(g(PT), g(PEND)), 0x0d, 0, 0x0b, 0x0b], // br_if 0 (loop); end loop; end block
   ];
-  // Chunks of CHUNK particles (in L1): all kicks of the chunk, then all drifts. The exact drift's sqrt and
-  // division make a long dependency chain; fused with the kick's, too few pairs fit the out-of-order window.
-  const split = rf > 0 && drift === 'exact';
+  // Chunks of CHUNK particles (in L1): all kicks of the chunk, then (with an induced stage) all its induced kicks,
+  // then all drifts (and deposits). The exact drift's sqrt and division, and the induced stage's table look-ups,
+  // make long dependency chains; fused into one body, too few pairs fit the out-of-order window.
+  const split = rf > 0 && (drift === 'exact' || induced);
+  const kickPass = (body: Code[]): Code[] => [
+    set(QT, g(PT)), set(QE, g(PE)),
+    [0x03, 0x40], // loop
+    set(T, v128load(g(QT))), set(E, v128load(g(QE))),
+    ...body,
+    v128store(g(QE), g(E)),
+    step(QT), step(QE),
+    [...i32.ltu(g(QT), g(CEND)), 0x0d, 0, 0x0b], // br_if loop; end
+  ];
   const splitLoop: Code[] = [
     [0x02, 0x40, 0x03, 0x40], // block $done; loop $chunk
     [...i32.ltu(g(PT), g(PEND)), 0x45, 0x0d, 1], // br_if $done (!(pt < pend))
     set(CEND, [...i32.add(g(PT), i32c(8 * CHUNK)), ...g(PEND), ...i32.ltu(i32.add(g(PT), i32c(8 * CHUNK)), g(PEND)), 0x1b]), // min
+    ...kickPass(kickBody),
+    ...(induced ? kickPass(inducedKick) : []),
     set(QT, g(PT)), set(QE, g(PE)),
-    [0x03, 0x40], // loop $kick
-    set(T, v128load(g(QT))), set(E, v128load(g(QE))),
-    ...kickLoop,
-    v128store(g(QE), g(E)),
-    step(QT), step(QE),
-    [...i32.ltu(g(QT), g(CEND)), 0x0d, 0, 0x0b], // br_if $kick; end
     [0x03, 0x40], // loop $drift
-    set(T, v128load(g(PT))), set(E, v128load(g(PE))),
-    ...driftLoop,
-    v128store(g(PT), g(T)),
+    set(T, v128load(g(QT))), set(E, v128load(g(QE))),
+    ...driftBody,
+    v128store(g(QT), g(T)),
     set(CNT, i64x2sub(g(CNT), g(MASK))),
-    step(PT), step(PE),
-    [...i32.ltu(g(PT), g(CEND)), 0x0d, 0, 0x0b], // br_if $drift; end
+    step(QT), step(QE),
+    [...i32.ltu(g(QT), g(CEND)), 0x0d, 0, 0x0b], // br_if $drift; end
+    ...(induced ? [
+      [0x03, 0x40], // loop $deposit
+      set(T, v128load(g(PT))),
+      ...deposit(false),
+      step(PT), step(PE),
+      [...i32.ltu(g(PT), g(CEND)), 0x0d, 0, 0x0b], // br_if $deposit; end
+    ] : [set(PT, g(QT)), set(PE, g(QE))]),
     [0x0c, 0, 0x0b, 0x0b], // br $chunk; end loop; end block
   ];
   const code: Code[] = [
@@ -263,12 +279,10 @@ function kernelBody(rf: number, drift: DriftKind, induced = false): Code {
     // odd last particle: lane 0 only
     [...i32.and(g(N), i32c(1)), 0x04, 0x40],
     set(T, load64zero(g(PT))), set(E, load64zero(g(PE))),
-    ...kickTail, ...driftTail,
+    ...kickLoop, ...driftTail,
     store64lane0(g(PT), g(T)), store64lane0(g(PE), g(E)),
     counting ? set(TAIL, i32.wrapI64(i64x2lane(g(MASK), 0))) : [], // −1 inside, 0 outside
     [0x0b],
-    // the induced kicks' sum: lane 0 (even indices) + lane 1 (odd), f64.store
-    induced ? [get(BASE), f64x2lane(g(SUMV), 0), f64x2lane(g(SUMV), 1), 0xa0, 0x39, 3, uleb(PARAM.IND_SUM)] : [],
     // return n − inside
     counting
       ? i32.add(i32.sub(g(N), i32.add(i32.wrapI64(i64x2lane(g(CNT), 0)), i32.wrapI64(i64x2lane(g(CNT), 1)))), g(TAIL))
