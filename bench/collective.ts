@@ -5,7 +5,7 @@
 // impedances minus the same turn without them (binning fold, FFT / wake recursion, the kick and the deposit).
 // The element's own passes (the reference path, used when radiation or added elements act between kick and drift)
 // are timed too. Bunch: gaussian, σφ = 0.3 rad at h = 8, window ±8σ on 1000 bins. Medians of RUNS after WARMUP.
-import { performance } from 'node:perf_hooks';
+// Times are CPU time of this (single-threaded) process, so that other jobs on a shared machine do not inflate them.
 import { loadavg } from 'node:os';
 import { bunchFrom, makeBunch, type Bunch } from '../core/bunch.ts';
 import { inducedKick } from '../core/elements/inducedKick.ts';
@@ -19,7 +19,7 @@ import type { ImpedanceSetup } from '../core/setup/collective.ts';
 import { parseSetup } from '../core/setup/validate.ts';
 import { Tracker } from '../core/tracker.ts';
 
-const PARTICLES = 1_000_000, BINS = 1000, RUNS = 21, WARMUP = 10;
+const PARTICLES = 1_000_000, BINS = 1000, RUNS = 31, WARMUP = 10;
 const json = process.argv.includes('--json');
 
 const zn: ImpedanceSetup[] = [{ kind: 'inductive', imZOverN: 5 }];
@@ -58,27 +58,46 @@ function median(xs: number[]): number {
   return s[Math.floor(s.length / 2)];
 }
 
-// ms per call of f on bunch b; the coordinates are restored between calls (not timed), so every call sees the same bunch.
+// CPU ms of one call of f on bunch b; the coordinates are restored first (not timed), so every call sees the same bunch.
+function once(b: Bunch, f: () => void): number {
+  b.dt.set(dt0);
+  b.dE.set(dE0);
+  b.n = PARTICLES;
+  const t0 = process.cpuUsage();
+  f();
+  const d = process.cpuUsage(t0);
+  return (d.user + d.system) / 1000;
+}
+
 function time(b: Bunch, f: () => void): number {
   const ts: number[] = [];
   for (let k = 0; k < WARMUP + RUNS; k++) {
-    b.dt.set(dt0);
-    b.dE.set(dE0);
-    b.n = PARTICLES;
-    const t0 = performance.now();
-    f();
-    if (k >= WARMUP) ts.push(performance.now() - t0);
+    const t = once(b, f);
+    if (k >= WARMUP) ts.push(t);
   }
   return median(ts);
 }
 
 // One tracker turn (wasm kernel) for a setup; the induced element keeps its window and memory between calls.
-function turn(impedances: ImpedanceSetup[]): number {
+function trackerOf(impedances: ImpedanceSetup[]): Tracker {
   const b = makeBunch(PARTICLES);
   b.dt.set(dt0);
   b.dE.set(dE0);
-  const tr = new Tracker(setupWith(impedances), b, { kernel: 'wasm' });
-  return time(tr.bunch, () => tr.track(1));
+  return new Tracker(setupWith(impedances), b, { kernel: 'wasm' });
+}
+const bareTracker = trackerOf([]);
+const bare = time(bareTracker.bunch, () => bareTracker.track(1));
+
+// Added cost of the impedances in the tracker's turn: median of the differences of turns timed in turn with the
+// bare tracker's (pairs taken close in time, so a change of load hits both).
+function fused(impedances: ImpedanceSetup[]): number {
+  const tr = trackerOf(impedances);
+  const ds: number[] = [];
+  for (let k = 0; k < WARMUP + RUNS; k++) {
+    const d = once(tr.bunch, () => tr.track(1)) - once(bareTracker.bunch, () => bareTracker.track(1));
+    if (k >= WARMUP) ds.push(d);
+  }
+  return median(ds);
 }
 
 // The RF kick alone in the wasm kernel (the kick half of the fused turn).
@@ -95,8 +114,6 @@ const element = (e: Element) => time(plain, () => e.apply(plain, m));
 const grid = { e0: -8 * sigT, delta: (16 * sigT) / BINS, nb: BINS };
 const model = (impedances: ImpedanceSetup[]) => ({ particlesPerBunch: 1e11, bunchCharge: 1.6e-8, bunches: 1, bins: BINS, smoothing: 1, window: 0, impedances });
 
-const bare = turn([]);
-const fused = (imp: ImpedanceSetup[]) => turn(imp) - bare;
 const cases: { name: string; ms: number }[] = [
   { name: 'RF kick alone, wasm kernel (1 system)', ms: rfWasm },
   { name: 'tracker turn without intensity (wasm: RF kick + drift)', ms: bare },
@@ -112,6 +129,6 @@ const rf = rfWasm;
 const load = loadavg()[0];
 if (json) console.log(JSON.stringify({ particles: PARTICLES, bins: BINS, loadAverage: load, cases: cases.map((c) => ({ ...c, relativeToRfKick: c.ms / rf })) }));
 else {
-  console.log(`${PARTICLES.toExponential(0)} particles, ${BINS} bins, median of ${RUNS} (load average ${load.toFixed(1)}); relative to the wasm RF kick`);
+  console.log(`${PARTICLES.toExponential(0)} particles, ${BINS} bins, CPU time, median of ${RUNS} (load average ${load.toFixed(1)}); relative to the wasm RF kick`);
   for (const c of cases) console.log(`${c.name.padEnd(62)} ${c.ms.toFixed(2).padStart(7)} ms   ${(c.ms / rf).toFixed(2)} ×`);
 }

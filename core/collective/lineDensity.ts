@@ -59,7 +59,7 @@ export function depositLinear(dt: Float64Array, n: number, g: BinGrid, w: number
  * of bins k−1 and k): (count − Σf)·w to bin k−1 and Σf·w to bin k, the outer half cells to the edge bins.
  * out (nb entries) is overwritten; returns the count of deposited particles.
  */
-export function foldCells(cells: Float64Array, nb: number, w: number, out: Float64Array): number {
+function foldCells(cells: Float64Array, nb: number, w: number, out: Float64Array): number {
   out.fill(0);
   let count = 0;
   for (let k = 0; k <= nb; k++) {

@@ -6,12 +6,12 @@
 // carry no charge and get no kick (counted in `outside`).
 // Two ways to run it: `apply` does all of it in its own passes over the bunch (the reference path, and whenever
 // other elements act between the kicks and the drift); prepare/settle run it inside a turn kernel's pass
-// (core/kernels InducedParams: the kick with the RF kick, the deposit for the next turn after the drift).
+// (core/kernels/induced.ts: the kick with the RF kick, the deposit for the next turn after the drift).
 import type { Bunch } from '../bunch.ts';
 import type { InducedVoltage } from '../collective/inducedVoltage.ts';
-import { depositLinear, foldCells, kickLinear } from '../collective/lineDensity.ts';
+import { depositLinear, kickLinear } from '../collective/lineDensity.ts';
 import { intensityModel, makeInducedVoltage, windowGrid, type IntensityModel } from '../collective/model.ts';
-import type { InducedParams } from '../kernels/types.ts';
+import { foldInduced, setInducedStage, type InducedParams } from '../kernels/induced.ts';
 import type { MachineState } from '../machine.ts';
 import type { Setup } from '../setup/schema.ts';
 import type { Element } from './types.ts';
@@ -77,22 +77,17 @@ export function inducedKick(model: IntensityModel, grid?: { e0: number; delta: n
     },
     prepare(b: Bunch, m: MachineState, p: InducedParams): void {
       const c = compute(b, m);
-      const g = c.grid, nb = g.nb, v = c.voltage, Z = m.particle.Z, out = p.volts;
+      const g = c.grid, nb = g.nb, v = c.voltage, Z = m.particle.Z;
       if (p.nb !== nb) throw new Error(`induced stage: tables for ${p.nb} bins, window has ${nb}`);
-      for (let i = 0; i < nb; i++) out[i + 1] = Z * v[i];
-      out[0] = out[1];
-      out[nb + 1] = out[nb];
-      p.inv = 1 / g.delta;
-      p.x0 = g.e0 * p.inv - 0.5; // as depositLinear and kickLinear: bin centre i at x = i + 1
-      p.cells.fill(0);
-      // The kick interpolates with the deposit's weights, so Σ kicks = Σ_bins (q/w)·Z·V (types.ts InducedParams).
+      setInducedStage(p, g.e0, g.delta, v, Z);
+      // The kick interpolates with the deposit's weights, so Σ kicks = Σ_bins (q/w)·Z·V.
       const w = model.bunchCharge / b.total;
       let sum = 0;
-      for (let i = 0; i < nb; i++) sum += q[i] * out[i + 1];
-      meanKick = b.n > 0 && w !== 0 ? sum / w / b.n : 0;
+      for (let i = 0; i < nb; i++) sum += q[i] * v[i];
+      meanKick = b.n > 0 && w !== 0 ? (Z * sum) / w / b.n : 0;
     },
     settle(b: Bunch, p: InducedParams): void {
-      const inside = foldCells(p.cells, p.nb, model.bunchCharge / b.total, q);
+      const inside = foldInduced(p, model.bunchCharge / b.total, q);
       outside = b.n - inside;
       current = true;
     },

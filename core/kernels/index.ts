@@ -5,6 +5,7 @@ import type { TurnKernel } from './types.ts';
 import { createWasmKernel, createWasmKernelAsync, wasmSimdSupported } from './wasm.ts';
 
 export * from './types.ts';
+export * from './induced.ts';
 export { createJsKernel } from './js.ts';
 export { createWasmKernel, createWasmKernelAsync, wasmSimdSupported, type WasmTurnKernel } from './wasm.ts';
 export { sinPoly, SIN_POLY_REL_ERROR, SIN_POLY_ABS_ERROR, SIN_POLY_MAX_ARG } from './sine.ts';

@@ -14,7 +14,8 @@
 //   loss:   count the particles with !(|dt| ≤ dtMax and dEmin ≤ dE ≤ dEmax) after the pass.
 // Hot loops take every parameter as an argument (PERF.md: module-scope reads in the loop halve the speed).
 import { sinPoly } from './sine.ts';
-import { checkColumns, checkInduced, checkKick, makeInducedParams, type DriftParams, type InducedParams, type KickParams, type Limits, type TurnKernel } from './types.ts';
+import { checkInduced, makeInducedParams, type InducedParams } from './induced.ts';
+import { checkColumns, checkKick, type DriftParams, type KickParams, type Limits, type TurnKernel } from './types.ts';
 
 type Sine = (x: number) => number;
 
@@ -180,40 +181,37 @@ function kd1Exact(dt: Float64Array, dE: Float64Array, n: number, sin: Sine, a0: 
   return out;
 }
 
-// Kick, induced-voltage kick, drift, deposit (types.ts InducedParams), any count of RF systems, either drift.
-// Operation for operation as the wasm kdi_* kernels: the RF sum in the same order, the interpolation as
-// a + f·(b − a), the deposit in index order.
+// Kick, induced-voltage kick, drift, deposit (core/kernels/induced.ts), any count of RF systems, either drift.
+// Operation for operation as the wasm kdi_* kernels: the RF sum in the same order, the clamps as wasm's pmax/pmin,
+// the kick as a + f·d, the deposit in index order.
 function kdInduced(dt: Float64Array, dE: Float64Array, n: number, sin: Sine, kick: KickParams, ind: InducedParams, drift: DriftParams, limits: Limits): number {
   const c = kick.count, A = kick.amplitude, w = kick.omega, p = kick.phase, sync = kick.dEsync;
   const linear = drift.kind === 'linear', slip = drift.slip, period = drift.period;
   const invEs = 1 / drift.Es, invB2 = 1 / drift.beta2, invB2G2 = 1 / drift.beta2 / drift.gamma2;
   const al0 = drift.alpha0, al1 = drift.alpha1, al2 = drift.alpha2;
   const dtMax = limits.dtMax, hi = limits.dEmax, lo = limits.dEmin ?? -limits.dEmax;
-  const inv = ind.inv, x0 = ind.x0, top = ind.nb + 0.5, v = ind.volts, cells = ind.cells;
+  const inv = ind.inv, y0 = ind.y0, top = 2 * ind.nb + 1, v = ind.volts, cells = ind.cells;
   let out = 0;
   for (let i = 0; i < n; i++) {
     let t = dt[i];
     let acc = A[0] * sin(p[0] + w[0] * t);
     for (let k = 1; k < c; k++) acc = acc + A[k] * sin(p[k] + w[k] * t);
     let e = dE[i] + (acc - sync);
-    const x = t * inv - x0;
-    let kk = 0;
-    if (x >= 0.5 && x < top) {
-      const j = x | 0;
-      const a = v[j];
-      kk = a + (x - j) * (v[j + 1] - a);
-    }
-    e = e + kk;
+    let y = t * inv - y0;
+    let m = y < 0 ? 0 : y;
+    let fl = Math.floor(top < m ? top : m);
+    let j = fl >= 0 ? fl : 0; // NaN → row 0, as the kernels' integer clamp does with a NaN's (default) bits
+    e = e + (v[2 * j] + (y - fl) * v[2 * j + 1]);
     t = t + (linear ? slip * e : period * exactRelative(e, invEs, invB2, invB2G2, al0, al1, al2));
     dE[i] = e;
     dt[i] = t;
     if (!(Math.abs(t) <= dtMax && e <= hi && e >= lo)) out++;
-    const y = t * inv - x0;
-    if (y >= 0.5 && y < top) {
-      const j = y | 0;
-      cells[2 * j] += 1;
-      cells[2 * j + 1] += y - j;
-    }
+    y = t * inv - y0;
+    m = y < 0 ? 0 : y;
+    fl = Math.floor(top < m ? top : m);
+    j = fl >= 0 ? fl : 0;
+    cells[2 * j] += 1;
+    cells[2 * j + 1] += y - fl;
   }
   return out;
 }

@@ -2,6 +2,7 @@
 // Units: dt in s (dt > 0 = late), dE in eV, phases in rad, angular frequencies in rad/s (PHYSICS.md §0, §4).
 // The blocks are plain mutable objects: the caller makes them once and overwrites their fields every turn,
 // so a kernel call allocates nothing.
+import type { InducedParams } from './induced.ts';
 
 /** Most RF systems one kick can apply. */
 export const MAX_RF = 4;
@@ -55,28 +56,6 @@ export interface Limits {
   dtMax: number;
   dEmax: number;
   dEmin?: number;
-}
-
-/**
- * Induced-voltage stage fused into a kick–drift pass (core/elements/inducedKick.ts fills it). Grid coordinate
- * x = dt·inv − x0 puts the centre of bin i at x = i + 1; the window is x ∈ [0.5, nb + 0.5) and cell k = ⌊x⌋ spans
- * the centres k and k+1 (cells 0 and nb are the outer half bins).
- *   kick, with dt before the drift:  dE += volts[k] + f·(volts[k+1] − volts[k]), f = x − k; 0 outside the window
- *   deposit, with dt after the drift, every particle inside the window (lost ones too: see depositLost):
- *                                    cells[2k] += 1, cells[2k+1] += f   (the caller folds them into bins)
- * The kick order per particle: RF kick, then this kick, then the drift, then the deposit. Since the RF kick leaves
- * dt alone, the deposit of pass n is the line density the kick of pass n+1 needs. The kernels run a chunk of
- * particles (in L1) through each step in turn: one pass over memory per turn.
- * The stage's total kick is Σ_bins (deposit weight)·volts, from the deposit of the kick's dt: the kernels skip it.
- */
-export interface InducedParams {
-  inv: number;
-  x0: number;
-  nb: number;
-  /** Energy kick [eV] at the nb bin centres, at indices 1..nb; 0 and nb+1 repeat the edge values. Length nb + 2. */
-  readonly volts: Float64Array;
-  /** Out: [count, Σf] per cell k = 0..nb (the kernel adds to it: zero it before the pass); cell nb + 1 is scratch. Length 2(nb + 2). */
-  readonly cells: Float64Array;
 }
 
 /** The one-turn map kernels; both implementations give the same interface. */
@@ -142,28 +121,4 @@ export function compactLost(cols: Columns, n: number, limits: Limits): number {
     i--; // re-visit the particle swapped in
   }
   return n;
-}
-
-/** Throws if an induced stage cannot be used (its tables must hold nb + 2 and 2(nb + 2) entries). */
-export function checkInduced(p: InducedParams): void {
-  if (!(Number.isInteger(p.nb) && p.nb >= 1 && p.volts.length >= p.nb + 2 && p.cells.length >= 2 * (p.nb + 2)))
-    throw new Error(`induced stage: nb must be an integer ≥ 1 with tables of nb + 2 and 2(nb + 2) entries, got nb = ${p.nb}`);
-  if (!(Number.isFinite(p.inv) && Number.isFinite(p.x0))) throw new Error(`induced stage: grid inv = ${p.inv}, x0 = ${p.x0} must be finite`);
-}
-
-/** Zeroed tables of an induced stage for nb bins, in ordinary arrays. */
-export function makeInducedParams(nb: number): InducedParams {
-  return { inv: 0, x0: 0, nb, volts: new Float64Array(nb + 2), cells: new Float64Array(2 * (nb + 2)) };
-}
-
-/** Take the deposits of dt[from..to) (particles a pass deposited, then set aside as lost) out of the cells again. */
-export function depositLost(dt: Float64Array, from: number, to: number, p: InducedParams): void {
-  const inv = p.inv, x0 = p.x0, top = p.nb + 0.5, cells = p.cells;
-  for (let i = from; i < to; i++) {
-    const x = dt[i] * inv - x0;
-    if (!(x >= 0.5 && x < top)) continue;
-    const k = x | 0;
-    cells[2 * k] -= 1;
-    cells[2 * k + 1] -= x - k;
-  }
 }

@@ -7,7 +7,8 @@
 // in place. Arrays kept elsewhere (e.g. a Bunch made with bunchFrom(cols.dt, cols.dE)) are NOT updated:
 // allocate everything first, or rebuild such wrappers from the Columns object after an allocation.
 // Columns not allocated by this kernel are rejected with an error (the kernel cannot reach other memory).
-import { checkColumns, checkInduced, checkKick, MAX_RF, type Columns, type DriftParams, type InducedParams, type KickParams, type Limits, type TurnKernel } from './types.ts';
+import { checkInduced, inducedTableLength, type InducedParams } from './induced.ts';
+import { checkColumns, checkKick, MAX_RF, type Columns, type DriftParams, type KickParams, type Limits, type TurnKernel } from './types.ts';
 import { buildKernelModule, HEAP_BASE, kernelName, PARAM, SCRATCH } from './wasmModule.ts';
 
 // The few WebAssembly declarations we need (core compiles with lib ES2022, which has none).
@@ -199,10 +200,10 @@ function kernelOver(memory: WasmMemory, instance: WasmInstance): WasmTurnKernel 
   // Re-point the tables of an induced stage (fields are readonly for users of the interface, not for their owner).
   function inducedViews(p: InducedParams, b: Block): void {
     const w = p as { volts: Float64Array; cells: Float64Array };
-    w.volts = new Float64Array(buffer, b.offset, b.n + 2);
-    w.cells = new Float64Array(buffer, b.offset + voltsBytes(b.n), 2 * (b.n + 2));
+    const len = inducedTableLength(b.n);
+    w.volts = new Float64Array(buffer, b.offset, len);
+    w.cells = new Float64Array(buffer, b.offset + 8 * len, len);
   }
-  const voltsBytes = (nb: number) => 16 * Math.ceil((nb + 2) / 2);
 
   const kernel = {
     impl: 'wasm' as const,
@@ -234,11 +235,11 @@ function kernelOver(memory: WasmMemory, instance: WasmInstance): WasmTurnKernel 
     },
     allocInduced(nb: number): InducedParams {
       if (!(Number.isInteger(nb) && nb >= 1)) throw new Error(`induced stage: bins must be an integer ≥ 1, got ${nb}`);
-      const bytes = voltsBytes(nb) + 16 * (nb + 2);
+      const bytes = 16 * inducedTableLength(nb); // two tables of 16-byte rows
       const offset = take(bytes);
       if (memory.buffer !== buffer) refresh();
       const b = { offset, bytes, n: nb };
-      const p: InducedParams = { inv: 0, x0: 0, nb, volts: new Float64Array(0), cells: new Float64Array(0) };
+      const p: InducedParams = { inv: 0, y0: 0, nb, volts: new Float64Array(0), cells: new Float64Array(0) };
       inducedViews(p, b);
       p.volts.fill(0);
       p.cells.fill(0);
@@ -261,9 +262,9 @@ function kernelOver(memory: WasmMemory, instance: WasmInstance): WasmTurnKernel 
       writeDrift(drift, limits);
       const p = params, ip = iparams;
       p[PARAM.IND_INV / 8] = ind.inv;
-      p[PARAM.IND_X0 / 8] = ind.x0;
-      p[PARAM.IND_TOP / 8] = ind.nb + 0.5;
-      ip[PARAM.IND_NB / 4] = ind.nb;
+      p[PARAM.IND_Y0 / 8] = ind.y0;
+      p[PARAM.IND_TOP / 8] = 2 * ind.nb + 1;
+      ip[PARAM.IND_TOPI / 4] = 2 * ind.nb + 1;
       ip[PARAM.IND_VOLTS / 4] = ind.volts.byteOffset;
       ip[PARAM.IND_CELLS / 4] = ind.cells.byteOffset;
       return (drift.kind === 'linear' ? kdiLinear : kdiExact)[kick.count]!(dt, cols.dE.byteOffset, n);

@@ -11,7 +11,7 @@
 //   drift_linear/exact  returns the number of particles outside the limits
 //   kd_linear_<k>, kd_exact_<k>   fused kick + drift, returns the number outside the limits
 //   kdi_linear_<k>, kdi_exact_<k> the same with the induced-voltage stage (kick, then deposit after the drift;
-//                       types.ts InducedParams)
+//                       core/kernels/induced.ts)
 // Pairs [2j, 2j+1] run through v128 loads/stores; an odd last particle goes through the same code with
 // v128.load64_zero / v128.store64_lane, so the particle at index n (a lost one) is never touched.
 // The loss count: the lane mask of "inside" (all ones) is subtracted from an i64x2 counter, no branch.
@@ -26,8 +26,8 @@ import { INV_PI, PI_HI, PI_LO, ROUND_MAGIC, SIN_COEFFS } from './sine.ts';
 export const PARAM = {
   A: 0, W: 32, PHI: 64, SYNC: 96, SLIP: 104, PERIOD: 112, INV_ES: 120, INV_B2: 128, INV_B2G2: 136,
   AL0: 144, AL1: 152, AL2: 160, DT_MAX: 168, DE_MIN: 176, DE_MAX: 184,
-  IND_INV: 192, IND_X0: 200, IND_TOP: 208, // induced stage: f64 (TOP = nb + 0.5)
-  IND_NB: 224, IND_VOLTS: 228, IND_CELLS: 232, // induced stage: i32 (nb, byte addresses of the tables)
+  IND_INV: 192, IND_Y0: 200, IND_TOP: 208, // induced stage: f64 (TOP = 2nb + 1, the last row)
+  IND_TOPI: 224, IND_VOLTS: 228, IND_CELLS: 232, // induced stage: i32 (2nb + 1, byte addresses of the tables)
   ZERO_I32: 440, // an i32 0 read at entry as the base address of the block
 } as const;
 /** Two scratch particles (dt at SCRATCH, dE at SCRATCH + 16) used by syncGain. */
@@ -90,7 +90,7 @@ const i32c = (v: number): Code => [0x41, sleb(v)];
 const bin = (op: Code) => (a: Code, b: Code): Code => [a, b, op];
 const un = (op: Code) => (a: Code): Code => [a, op];
 const f64x2 = {
-  max: bin(simd(0xf5)), floor: un(simd(0x75)), abs: un(simd(0xec)), sqrt: un(simd(0xef)), nearest: un(simd(0x94)),
+  max: bin(simd(0xf5)), pmin: bin(simd(0xf6)), pmax: bin(simd(0xf7)), floor: un(simd(0x75)), abs: un(simd(0xec)), sqrt: un(simd(0xef)), nearest: un(simd(0x94)),
   add: bin(simd(0xf0)), sub: bin(simd(0xf1)), mul: bin(simd(0xf2)), div: bin(simd(0xf3)),
   le: bin(simd(0x4b)), ge: bin(simd(0x4c)),
 };
@@ -103,7 +103,6 @@ const i32 = { add: bin([0x6a]), sub: bin([0x6b]), and: bin([0x71]), shl: bin([0x
 const v128load = (addr: Code): Code => [addr, simd(0x00), 4, 0];
 const v128store = (addr: Code, v: Code): Code => [addr, v, simd(0x0b), 4, 0];
 const load64zero = (addr: Code): Code => [addr, simd(0x5d), 3, 0];
-const v128loadU = (addr: Code): Code => [addr, simd(0x00), 3, 0]; // 8-byte aligned
 const shuffle = (a: Code, b: Code, lanes: number[]): Code => [a, b, simd(0x0d), lanes];
 const LO_LANES = [0, 1, 2, 3, 4, 5, 6, 7], HI_LANES = [8, 9, 10, 11, 12, 13, 14, 15];
 const plus16 = (l: number[]) => l.map((x) => x + 16);
@@ -111,8 +110,6 @@ const i32x4 = {
   min: bin(simd(0xb6)), max: bin(simd(0xb8)), add: bin(simd(0xae)), lane: (a: Code, j: number): Code => [a, simd(0x1b), j],
   shl: (a: Code, bits: number): Code => [a, i32c(bits), simd(0xab)],
 };
-const v128bitselect = (a: Code, b: Code, c: Code): Code => [a, b, c, simd(0x52)]; // (a & c) | (b & ~c)
-const f64x2lt = bin(simd(0x49));
 const store64lane0 = (addr: Code, v: Code): Code => [addr, v, simd(0x5b), 3, 0, 0];
 
 // One kernel function. Locals: params 0..2, then i32 locals, then v128 locals (declared in that order).
@@ -126,7 +123,7 @@ function kernelBody(rf: number, drift: DriftKind, induced = false): Code {
   const v = () => next++;
   const T = v(), E = v(), X = v(), K = v(), KB = v(), R = v(), R2 = v(), ACC = v(), MASK = v(), CNT = v();
   const EPS = v(), WW = v(), DELTA = v();
-  const XI = v(), KI = v(), FI = v(), IN = v(), LA = v(), LB = v(), KV = v(), NBV = v(), DUMPV = v(), VBV = v(), CBV = v(); // induced stage
+  const XI = v(), KI = v(), FI = v(), LA = v(), LB = v(), KV = v(), TOPV = v(), VBV = v(), CBV = v(); // induced stage
   const nV128 = next - firstV;
   const { add, sub, mul, div } = f64x2;
   const g = get;
@@ -142,38 +139,34 @@ function kernelBody(rf: number, drift: DriftKind, induced = false): Code {
   const i32splat = (c: Code): Code => [c, simd(0x11)];
   if (induced) setup.push(
     set(VBV, i32splat(i32load(PARAM.IND_VOLTS))), set(CBV, i32splat(i32load(PARAM.IND_CELLS))),
-    set(NBV, i32splat(i32load(PARAM.IND_NB))), set(DUMPV, i32splat(i32.add(i32load(PARAM.IND_NB), i32c(1)))),
+    set(TOPV, i32splat(i32load(PARAM.IND_TOPI))),
   );
 
-  // Induced stage (types.ts InducedParams): grid coordinate x of the pair in T, its cell k = ⌊x⌋ as an integer in
-  // i32 lanes 0 and 2 (by the sine's rounding trick) clamped to [0, nb] as integers, so any x (even a NaN's bits)
-  // gives an index inside the tables; f = x − ⌊x⌋; IN = inside the window. A = table base + k·bytes, per lane.
-  const HALF = splat(0.5);
-  const gridPair = (base: number, shift: number): Code[] => [
-    set(XI, sub(mul(g(T), P(PARAM.IND_INV)), P(PARAM.IND_X0))),
-    set(FI, f64x2.floor(g(XI))),
-    set(KI, i32x4.min(i32x4.max(add(g(FI), MAGIC), ZERO), g(NBV))),
+  // Induced stage (core/kernels/induced.ts): y = dt·inv − y0 of the pair in T; row j = ⌊clamp(y, 0, 2nb+1)⌋ as an
+  // integer in i32 lanes 0 and 2 (by the sine's rounding trick), clamped again as an integer so that even a NaN's
+  // bits give a row inside the tables, then turned into a byte address (rows of 16 bytes); f = y − ⌊clamp(y)⌋.
+  const rowPair = (base: number): Code[] => [
+    set(XI, sub(mul(g(T), P(PARAM.IND_INV)), P(PARAM.IND_Y0))),
+    set(FI, f64x2.floor(f64x2.pmin(f64x2.pmax(g(XI), ZERO), P(PARAM.IND_TOP)))),
+    set(KI, i32x4.min(i32x4.max(add(g(FI), MAGIC), ZERO), g(TOPV))),
     set(FI, sub(g(XI), g(FI))),
-    set(IN, v128and(f64x2.ge(g(XI), HALF), f64x2lt(g(XI), P(PARAM.IND_TOP)))),
-    ...(shift === 4 ? [set(KI, v128bitselect(g(KI), g(DUMPV), g(IN)))] : []), // outside: to the dump cell
-    set(KI, i32x4.add(i32x4.shl(g(KI), shift), g(base))),
+    set(KI, i32x4.add(i32x4.shl(g(KI), 4), g(base))),
   ];
-  // dE += a + f·(b − a) with (a, b) = volts[k], volts[k+1]: one unaligned load per particle, lanes regrouped.
+  // dE += a_j + f·d_j: one aligned load per particle, lanes regrouped into (a0, a1) and (d0, d1).
   const inducedKick: Code[] = [
-    ...gridPair(VBV, 3),
-    set(LA, v128loadU(i32x4.lane(g(KI), 0))),
-    set(LB, v128loadU(i32x4.lane(g(KI), 2))),
-    set(KV, shuffle(g(LA), g(LB), [...LO_LANES, ...plus16(LO_LANES)])), // (a0, a1)
-    set(LB, shuffle(g(LA), g(LB), [...HI_LANES, ...plus16(HI_LANES)])), // (b0, b1)
-    set(E, add(g(E), v128and(add(g(KV), mul(g(FI), sub(g(LB), g(KV)))), g(IN)))),
+    ...rowPair(VBV),
+    set(LA, v128load(i32x4.lane(g(KI), 0))),
+    set(LB, v128load(i32x4.lane(g(KI), 2))),
+    set(KV, shuffle(g(LA), g(LB), [...LO_LANES, ...plus16(LO_LANES)])),
+    set(LB, shuffle(g(LA), g(LB), [...HI_LANES, ...plus16(HI_LANES)])),
+    set(E, add(g(E), add(g(KV), mul(g(FI), g(LB))))),
   ];
-  // cells[k] += (1, f) for a particle inside the window, else the dump cell nb + 1 (never read); lane 0 then
-  // lane 1 (they may share a cell).
+  // cells[j] += (1, f); lane 0 then lane 1 (they may share a row).
   const depositLane = (j: number): Code[] => [
     set(ADDR, i32x4.lane(g(KI), 2 * j)),
     v128store(g(ADDR), add(v128load(g(ADDR)), shuffle(ONE, g(FI), [...LO_LANES, ...plus16(j === 0 ? LO_LANES : HI_LANES)]))),
   ];
-  const deposit = (tail: boolean): Code[] => [...gridPair(CBV, 4), ...depositLane(0), ...(tail ? [] : depositLane(1))];
+  const deposit = (tail: boolean): Code[] => [...rowPair(CBV), ...depositLane(0), ...(tail ? [] : depositLane(1))];
 
   // The map for the two particles in T, E (as sinPoly and js.ts, operation for operation).
   const kickBody: Code[] = [];
