@@ -92,16 +92,34 @@ describe('insideFraction', () => {
     set(0, 0, 0.99 * delta0); // inside
     set(1, 0, -1.01 * delta0); // outside
     set(2, 3.0, 0); // inside: U(3) < Usep
-    set(3, 3.2, 0); // outside the phase range
+    set(3, 2 * Math.PI + 0.1, 0.5 * delta0); // inside the next bucket (integer harmonic ratios: U repeats every 2π)
     set(4, 2.0, 0.6 * delta0); // separatrix at φ = 2: δ = δ0·cos(1) = 0.54 δ0, so outside
     set(5, 0.1, 0);
     loseParticle(c, 5); // lost particles count as outside
-    expect(insideSeparatrix(c, m, bucket)).toBe(2);
+    expect(insideSeparatrix(c, m, bucket)).toBe(3);
     // The same through computeDiagnostics with the bucket of core/bucket.ts, whose Usep must match §7.
     const br = computeBucket(m);
     if (!br.ok) throw new Error(br.reason);
     expect(Math.abs(br.bucket.Usep / bucket.Usep - 1)).toBeLessThan(1e-9);
-    expect(computeDiagnostics(c, m, br.bucket, 16).insideFraction).toBeCloseTo(2 / 6, 15);
+    expect(computeDiagnostics(c, m, br.bucket, 16).insideFraction).toBeCloseTo(3 / 6, 15);
+  });
+});
+
+describe('insideFraction of a coasting beam (every bucket counts)', () => {
+  it('equals bucket area / phase-space area: 8δ0 per 2π of phase for a stationary bucket (PHYSICS.md §7 [Lee ch. 3])', () => {
+    const m = machineAtStart(setup());
+    const beta2E = m.beta * m.beta * m.Es;
+    const delta0 = Math.sqrt((2 * m.particle.Z * m.rf[0].V) / (Math.PI * beta2E * m.h * Math.abs(m.eta0)));
+    const br = computeBucket(m);
+    if (!br.ok) throw new Error(br.reason);
+    // Uniform over the whole ring in φ (h = 8 buckets) and over |δ| ≤ 2δ0: the separatrix δ0·cos(φ/2) encloses
+    // 8δ0 of each 2π × 4δ0, so the fraction inside is 1/π. 2e5 particles: binomial σ ≈ 0.1 %; tolerance 1 %.
+    const n = 200_000, c = makeBunch(n), rng = makeRng(11);
+    for (let i = 0; i < n; i++) {
+      c.dt[i] = ((rng.uniform() - 0.5) * 2 * Math.PI * m.h) / m.omegaRf;
+      c.dE[i] = (rng.uniform() - 0.5) * 4 * delta0 * beta2E;
+    }
+    expect(Math.abs(insideSeparatrix(c, m, br.bucket) / n - 1 / Math.PI)).toBeLessThan(0.01 / Math.PI);
   });
 });
 

@@ -1,12 +1,14 @@
 // Particles inside the separatrix. Units: dt in s, dE in eV, phases in rad.
 // Per-turn Hamiltonian H'(φ, δ) of core/bucket.ts (PHYSICS.md §5): φ = φs + ω_rf·dt, δ = dE/(β²E) (first order,
-// as in §5). Inside: phiLeft ≤ φ ≤ phiRight and H' < Usep.
+// as in §5). Inside: phiLeft ≤ φ ≤ phiRight and H' < Usep, in any of the buckets: when every harmonic ratio is an
+// integer the wave repeats every 2π of φ and U(φ + 2π) = U(φ) + const, so each bucket is the central one moved by
+// 2π and φ is first taken back into [phiLeft, phiLeft + 2π). With a non-integer ratio only the central bucket counts.
 // Speed: U(φ) is tabulated once per call on TABLE intervals over [phiLeft, phiRight] and interpolated linearly.
 // The interpolation error is at most h²/8·max|U''| with |U''| = |F'(φ)|/(β²E) ≤ Σ|Z·V_k·n_k|/(β²E) (rf.ts), so
 // a particle whose interpolated H' is farther than that bound from Usep is classified without the exact U; the
 // few within the bound get the exact hamiltonian(). The count is therefore exactly that of the exact test.
 import type { Bunch } from '../bunch.ts';
-import { hamiltonian, phaseOfDt } from '../bucket.ts';
+import { hamiltonian } from '../bucket.ts';
 import type { MachineState } from '../machine.ts';
 
 /** The part of a bucket description this check needs (a BucketInfo fits). */
@@ -41,10 +43,12 @@ export function insideSeparatrix(b: Bunch, m: MachineState, bucket: BucketLimits
   const tol = (h * h * slope * inv) / 8 + 1e-12 * maxAbs;
   const kin = Math.PI * m.h * Math.abs(m.eta0) * inv * inv; // H' kinetic term per dE²
   const phiS = m.phiS, wRf = m.omegaRf, invH = 1 / h;
+  const periodic = m.wave.n.every(Number.isInteger), TWO_PI = 2 * Math.PI;
   const dt = b.dt, dE = b.dE, n = b.n;
   let count = 0;
   for (let i = 0; i < n; i++) {
-    const phi = phiS + wRf * dt[i];
+    let phi = phiS + wRf * dt[i];
+    if (periodic && (phi < phiLeft || phi >= phiLeft + TWO_PI)) phi -= TWO_PI * Math.floor((phi - phiLeft) / TWO_PI);
     if (!(phi >= phiLeft && phi <= phiRight)) continue;
     const x = (phi - phiLeft) * invH;
     const j = Math.min(TABLE - 1, Math.floor(x));
@@ -52,7 +56,7 @@ export function insideSeparatrix(b: Bunch, m: MachineState, bucket: BucketLimits
     const e = dE[i];
     const H = kin * e * e + U[j] + f * (U[j + 1] - U[j]);
     if (H < Usep - tol) count++;
-    else if (H <= Usep + tol && hamiltonian(m, phaseOfDt(m, dt[i]), e * inv) < Usep) count++;
+    else if (H <= Usep + tol && hamiltonian(m, phi, e * inv) < Usep) count++;
   }
   return count;
 }
