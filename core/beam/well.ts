@@ -1,14 +1,12 @@
 // The potential well of the main bucket as seen by a matched bunch: U(φ), level contours and the φ-quadrature.
 // Units: H' and U per turn (dimensionless, PHYSICS.md §5), φ in rad (main harmonic), dt in s, dE in eV.
 // H'(φ, dE) = U(φ) + a·dE² with a = π·h·|η|/(β²E)²; φ = φ_s + ω_rf·dt, so areas in (dt, dE) are ∫2·D dφ/ω_rf.
-// U is evaluated in a form free of cancellation near φs (x = φ − φs, s_k, c_k = sin, cos(n_k·φs + Φ_k)):
-//   ∫_{φs}^{φ} F dφ' = Σ (ZV_k/n_k)·[2c_k·sin²(n_k x/2) − s_k·(n_k x − sin n_k x)] + F(φs)·x,
-// the same as core/rf.ts rfGainIntegral up to rounding, but exact to relative 1e-16/|x| instead of 1e-16/x²,
-// so bunches down to 1e-10 of the bucket keep accurate moments.
+// U is core/bucket/well.ts wellU (product form, relative precision ~1e-16/|φ − φs| near the well bottom), so
+// bunches down to 1e-10 of the bucket keep accurate moments.
 // Quadrature: φ = φmin + L·(1 − cos θ)/2 with the midpoint rule in θ. Near a turning point the energy
 // integrals behave like (φ − φmin)^(μ+½); the substitution makes them smooth in θ, so the rule converges fast.
+import { wellOf, wellU as bucketWellU, type Well as PotentialWell } from '../bucket/well.ts';
 import type { MachineState } from '../machine.ts';
-import { rfGain } from '../rf.ts';
 
 /** The bucket fields a matched bunch needs (structurally a subset of core/bucket.ts BucketInfo). */
 export interface BucketBounds {
@@ -21,15 +19,15 @@ export interface BucketBounds {
   area: number;
 }
 
-/** Precomputed description of the well: machine, bucket bounds and the coefficients of U. */
+/** Precomputed description of the well: machine, bucket bounds and the potential. */
 export interface Well {
   m: MachineState;
   b: BucketBounds;
   beta2E: number;
   /** H' = U + a·dE² [1/eV²]. */
   a: number;
-  /** Per system: ZV_k/n_k, n_k, sin and cos of n_k·φs + Φ_k; and F(φs) (≈ 0), and −sgn(η)/(β²E). */
-  zvn: Float64Array; n: Float64Array; s0: Float64Array; c0: Float64Array; F0: number; pre: number;
+  /** U(φ) in the per-turn units of H' = π·h·|η|·δ² + U (core/bucket/well.ts). */
+  q: PotentialWell;
 }
 
 // Steps of the outward walk from φs that brackets a level crossing (then bisected to machine precision).
@@ -41,37 +39,12 @@ const SEPARATRIX_SLACK = 1e-12;
 export function makeWell(m: MachineState, b: BucketBounds): Well {
   if (m.eta0 === 0) throw new Error('machine: the slip factor η0 is 0 (at transition): no matched bunch exists');
   const beta2E = m.beta * m.beta * m.Es;
-  const k = m.wave.ZV.length;
-  const zvn = new Float64Array(k), n = new Float64Array(k), s0 = new Float64Array(k), c0 = new Float64Array(k);
-  for (let i = 0; i < k; i++) {
-    n[i] = m.wave.n[i];
-    zvn[i] = m.wave.ZV[i] / n[i];
-    s0[i] = Math.sin(n[i] * m.phiS + m.wave.offset[i]);
-    c0[i] = Math.cos(n[i] * m.phiS + m.wave.offset[i]);
-  }
-  return {
-    m, b, beta2E, a: (Math.PI * m.h * Math.abs(m.eta0)) / (beta2E * beta2E),
-    zvn, n, s0, c0, F0: rfGain(m.wave, m.phiS), pre: -Math.sign(m.eta0) / beta2E,
-  };
+  return { m, b, beta2E, a: (Math.PI * m.h * Math.abs(m.eta0)) / (beta2E * beta2E), q: wellOf(m) };
 }
 
-/** U(φ) of the well (cancellation-free near φs, see the header). */
+/** U(φ) of the well. */
 export function wellU(w: Well, phi: number): number {
-  const x = phi - w.m.phiS;
-  let I = w.F0 * x;
-  for (let i = 0; i < w.n.length; i++) {
-    const y = w.n[i] * x;
-    const h = Math.sin(0.5 * y);
-    I += w.zvn[i] * (2 * w.c0[i] * h * h - w.s0[i] * yMinusSin(y));
-  }
-  return w.pre * I;
-}
-
-// y − sin y, by its series below |y| = 0.1 (terms to y¹¹: error < 1e-22·|y|³) and directly above.
-function yMinusSin(y: number): number {
-  if (Math.abs(y) >= 0.1) return y - Math.sin(y);
-  const y2 = y * y;
-  return ((y * y2) / 6) * (1 - (y2 / 20) * (1 - (y2 / 42) * (1 - (y2 / 72) * (1 - y2 / 110))));
+  return bucketWellU(w.q, phi);
 }
 
 /** Phases [φmin, φmax] of the level H around φs (the connected region holding φs). */
