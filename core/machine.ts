@@ -6,7 +6,7 @@
 // Programs (core/program): table and smooth ramps give p·c(t), so turn n+1 has p·c(t_n + T0(n)); RF programs give
 // V_k(t_n) and Φ_k(t_n) on turn n; rf.slope 'timed' puts the transition jump at rf.switchTime.
 import { C_LIGHT, DEG, TWO_PI } from './constants.ts';
-import { eta0, eta1, fromKinetic, fromMomentum, fromTotal, type Compaction, type Kinematics } from './kinematics.ts';
+import { eta0, eta1, fromKinetic, fromMomentum, fromTotal, hypot, type Compaction, type Kinematics } from './kinematics.ts';
 import { makeParticle, type Particle } from './particle.ts';
 import { energyLossPerTurn, radiationLattice, type RadiationLattice } from './radiation.ts';
 import type { RfWave } from './rf.ts';
@@ -91,6 +91,7 @@ export class MachineStepper {
   private readonly programs: CyclePrograms;
   private fresh = true; // no events on the first refresh
   private readonly radiation: RadiationLattice | null;
+  private pcStep = 0; // change of p·c during the current turn [eV], set by refresh (once per turn)
 
   constructor(setup: Setup) {
     this.setup = setup;
@@ -114,10 +115,10 @@ export class MachineStepper {
   /** Advance to the next turn. */
   advance(): void {
     const s = this.state;
-    const step = this.momentumStep(); // before the clock moves: programs are looked up at time + T0
     s.time += s.T0;
     s.turn += 1;
-    setMomentum(s, s.pc + step);
+    s.pc += this.pcStep; // from refresh, before the clock moved: programs are looked up at time + T0
+    setKinematics(s);
     this.refresh();
   }
 
@@ -130,7 +131,7 @@ export class MachineStepper {
     this.refresh();
   }
 
-  // Change of p·c [eV] during the current turn.
+  // Change of p·c [eV] during the current turn (refresh stores it in pcStep, so the programs are read once per turn).
   private momentumStep(): number {
     const s = this.state;
     const r = this.setup.energy.ramp;
@@ -160,7 +161,8 @@ export class MachineStepper {
     s.omegaRf = s.h * s.omega0;
     s.eta0 = eta0(s.compaction, s.gamma);
     s.eta1 = eta1(s.compaction, s.gamma, s.beta);
-    s.dEs = Math.hypot(s.pc + this.momentumStep(), s.particle.mass) - s.Es; // no object per turn
+    this.pcStep = this.momentumStep();
+    s.dEs = hypot(s.pc + this.pcStep, s.particle.mass) - s.Es;
     s.U0 = this.radiation ? energyLossPerTurn(s.particle, s.Es, this.radiation) : 0;
     (s.wave as { dEs: number }).dEs = s.dEs + s.U0; // synchronous condition ZΣV sin φ_k = ΔE_s + U0 (PHYSICS.md §4, §11)
     this.followRfPrograms();
@@ -174,7 +176,10 @@ export class MachineStepper {
     } else s.noBucket = null;
     if (!this.fresh && (slope0 !== s.slope || had !== (s.noBucket === null))) this.tell(slope0, phi0, had);
     this.fresh = false;
-    for (const r of s.rf) r.phi = (r.h / s.h) * s.phiS + r.offset;
+    for (let k = 0; k < s.rf.length; k++) {
+      const r = s.rf[k];
+      r.phi = (r.h / s.h) * s.phiS + r.offset;
+    }
   }
 
   // Voltages and phase offsets from the RF programs at this turn's time, written in place.
@@ -205,11 +210,10 @@ export class MachineStepper {
   }
 }
 
-// Synchronous kinematics from p·c, written in place (no object per turn).
-function setMomentum(s: MachineState, pc: number): void {
-  const m = s.particle.mass;
-  s.pc = pc;
-  s.Es = Math.hypot(pc, m);
+// Synchronous kinematics from s.pc, written in place (no object per turn).
+function setKinematics(s: MachineState): void {
+  const m = s.particle.mass, pc = s.pc;
+  s.Es = hypot(pc, m);
   s.gamma = s.Es / m;
   s.beta = pc / s.Es;
   s.T = s.Es - m;

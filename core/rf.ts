@@ -49,6 +49,6 @@ export function potential(w: RfWave, phiS: number, phi: number, etaSign: number,
 /** Highest harmonic ratio present (sets the sampling density for root searches). */
 export function maxHarmonicRatio(w: RfWave): number {
   let m = 1;
-  for (const n of w.n) m = Math.max(m, Math.abs(n));
+  for (let k = 0; k < w.n.length; k++) m = Math.max(m, Math.abs(w.n[k])); // index loop: no iterator per call
   return m;
 }

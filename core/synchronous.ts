@@ -37,7 +37,8 @@ export function bisectRoot(w: RfWave, a: number, b: number, fa = rfGain(w, a)): 
 /** True if the root at φ is a stable fixed point for the given slope. */
 export function isStable(w: RfWave, phi: number, slope: Slope): boolean {
   const d = rfGainSlope(w, phi);
-  const scale = w.ZV.reduce((s, v, k) => s + Math.abs(v * w.n[k]), 0);
+  let scale = 0;
+  for (let k = 0; k < w.ZV.length; k++) scale += Math.abs(w.ZV[k] * w.n[k]);
   if (Math.abs(d) > 1e-9 * scale) return slope === 'rising' ? d > 0 : d < 0;
   // Degenerate slope: stable if ∫F has the right curvature sign, i.e. the potential has a minimum here.
   const eps = 1e-3;

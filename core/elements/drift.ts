@@ -10,6 +10,7 @@
 // The tests are written as !(inside) so that a NaN would count as lost, never propagate.
 import { loseParticle, type Bunch } from '../bunch.ts';
 import type { MachineState } from '../machine.ts';
+import { hypot } from '../kinematics.ts';
 import type { Element } from './types.ts';
 
 /** First-order slip (η0) or the exact time of flight. */
@@ -17,7 +18,7 @@ export type DriftMode = 'linear' | 'exact';
 
 /** Energy offset [eV] at which Δp/p = x exactly (momentum pc, total energy Es, rest energy mass; no cancellation). */
 export function dEAtDelta(x: number, pc: number, Es: number, mass: number): number {
-  const E = Math.hypot(pc * (1 + x), mass);
+  const E = hypot(pc * (1 + x), mass);
   return (pc * pc * x * (2 + x)) / (E + Es);
 }
 
