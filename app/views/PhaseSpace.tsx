@@ -2,7 +2,9 @@
 // the separatrix and fixed points of the bucket at the shown energy drawn over it. Three Plotly figures are
 // stacked with the same margins and ranges: axes (bottom; redrawn only when the window changes), beam (every
 // frame) and bucket (when the bucket changes). The two upper layers have no axes to draw, so each redraw
-// stays a short task.
+// stays a short task. The window sticks until the bucket or beam clearly outgrows it (the rule the runner bins
+// by), so a ramp or a small edit redraws no axes, and an edit only restyles the bucket layer's three traces, in
+// the edit's own task: the new separatrix shows in the same frame as the new bucket numbers.
 import { useEffect, useRef } from 'react';
 import type { Data, Layout } from 'plotly.js';
 import Plotly from '../plotly.ts';
@@ -10,7 +12,9 @@ import { bucketAt } from '../derived.ts';
 import { shownPoint } from '../runner.ts';
 import { useApp } from '../store.ts';
 import { energyUnit } from '../units.ts';
-import { chooseWindow } from '../viewWindow.ts';
+import { chooseWindow, needsRefit } from '../viewWindow.ts';
+import type { ViewWindow } from '../../workers/protocol.ts';
+import type { BucketView } from '../derived.ts';
 import { BASE_LAYOUT } from './Panel.tsx';
 import { savePng } from './png.ts';
 import { scheduleDraw } from './schedule.ts';
@@ -22,28 +26,55 @@ const SEP_COLOUR = '#c0561b';
 const STATIC = { displayModeBar: false, responsive: true, staticPlot: true } as const;
 // The bucket layer follows a ramp at most this often [ms].
 const BUCKET_GAP_MS = 500;
-// The beam layer at most this often [ms]: up to 25 pictures a second (the density must update ≥ 20 times a second).
-const BEAM_GAP_MS = 40;
+// The beam layer at most this often [ms]: draws start on animation frames (~16.7 ms apart), so a 40 ms gap would
+// mean every third frame (20 a second at best); 30 ms allows every second one (up to 30 a second, ≥ 20 wanted).
+const BEAM_GAP_MS = 30;
 
-function heatmapZ(h: Float32Array, nx: number, ny: number): (number | null)[][] {
+// Rows of counts with empty cells left blank (null), and the range of the filled ones: given to Plotly as
+// zmin/zmax, it skips its own scan of the grid at every frame (same colours as its automatic range).
+function heatmapZ(h: Float32Array, nx: number, ny: number): { z: (number | null)[][]; zmin: number; zmax: number } {
   const z: (number | null)[][] = new Array(ny);
+  let zmin = Infinity, zmax = 0;
   for (let j = 0; j < ny; j++) {
     const row: (number | null)[] = new Array(nx);
     for (let i = 0; i < nx; i++) {
       const c = h[j * nx + i];
-      row[i] = c > 0 ? c : null;
+      if (c > 0) {
+        row[i] = c;
+        if (c < zmin) zmin = c;
+        if (c > zmax) zmax = c;
+      } else row[i] = null;
     }
     z[j] = row;
   }
-  return z;
+  return zmax > 0 ? { z, zmin, zmax } : { z, zmin: 0, zmax: 1 };
 }
+
+// The bucket layer's three traces (always all three, so an update is a restyle of the same traces), in display units.
+function bucketTraces(bv: BucketView, k: number): { x: number[][]; y: number[][] } {
+  const s = bv.sep;
+  const sx = s ? Array.from(s.dt, (t) => t * 1e9) : [], sy = s ? Array.from(s.dE, (e) => e * k) : [];
+  return {
+    x: [sx, bv.stableDt.map((t) => t * 1e9), bv.unstableDt.map((t) => t * 1e9)],
+    y: [sy, bv.stableDt.map(() => 0), bv.unstableDt.map(() => 0)],
+  };
+}
+
+const LINEAR = { 'xaxis.type': 'linear', 'yaxis.type': 'linear' } as const;
+
+const BUCKET_STYLE: Data[] = [
+  { type: 'scatter', mode: 'lines', line: { color: SEP_COLOUR, width: 1.6 }, name: 'separatrix' },
+  { type: 'scatter', mode: 'markers', marker: { symbol: 'circle-open', size: 8, color: SEP_COLOUR }, name: 'stable fixed point' },
+  { type: 'scatter', mode: 'markers', marker: { symbol: 'x-thin-open', size: 9, color: SEP_COLOUR, line: { width: 2, color: SEP_COLOUR } }, name: 'unstable fixed point' },
+];
 
 // All layers share margins and ranges; only the bottom one draws grid, ticks, titles and zero lines.
 type LayerKind = 'axes' | 'beam' | 'bucket';
 
 function layer(kind: LayerKind): Partial<Layout> {
   const on = kind === 'axes';
-  const axis = { zeroline: on, zerolinecolor: '#cfd3d8', showgrid: on, showticklabels: on, ticks: on ? ('outside' as const) : ('' as const), autorange: false };
+  // type 'linear' spares Plotly guessing the axis type from the data at every redraw.
+  const axis = { type: 'linear' as const, zeroline: on, zerolinecolor: '#cfd3d8', showgrid: on, showticklabels: on, ticks: on ? ('outside' as const) : ('' as const), autorange: false };
   return {
     ...BASE_LAYOUT,
     margin: { l: 60, r: 14, t: 8, b: 42 },
@@ -75,14 +106,20 @@ export function PhaseSpace() {
   const valid = useApp((s) => s.valid);
   const frame = useApp((s) => s.frame);
   const bv = useApp((s) => bucketAt(s.valid, shownPoint(s)));
-  const win = chooseWindow(bv, frame?.current ?? null);
+  // The shown window: kept until the wanted one differs clearly (same rule as the runner's binning window).
+  const shown = useRef<ViewWindow | null>(null);
+  const want = chooseWindow(bv, frame?.current ?? null);
+  if (!shown.current || needsRefit(shown.current, want)) shown.current = want;
+  const win = shown.current;
   const eu = energyUnit(win.dEMax);
   const k = eu.toDisplay;
   const xr: [number, number] = [win.dtMin * 1e9, win.dtMax * 1e9];
   const yr: [number, number] = [win.dEMin * k, win.dEMax * k];
   const key = `${xr}|${yr}`;
-  // The setup the bucket layer was last drawn for: a new one (an edit) is drawn before anything else.
+  // The setup the bucket layer was last drawn for: a new one (an edit) is drawn at once.
   const drawnFor = useRef(valid);
+  // The window the bucket layer was last laid out in: within it, a new bucket is a restyle of its traces.
+  const laidOut = useRef('');
 
   // Axes layer: only when the window or the energy unit changes.
   useEffect(() => {
@@ -90,19 +127,26 @@ export function PhaseSpace() {
     scheduleDraw('axes', () => axesRef.current && Plotly.react(axesRef.current, [], axesLayout.current, STATIC));
   }, [key, eu.label]);
 
-  // Bucket layer: separatrix, fixed points.
+  // Bucket layer: separatrix, fixed points. Within the window it was laid out in, a new bucket is a restyle of its
+  // traces; a new window needs a new layout (react). After an edit the restyle runs at once, in the old window
+  // (the bucket margin leaves room), and a new window follows in the draw queue with the axes and beam layers.
   useEffect(() => {
-    const data: Data[] = [];
-    if (bv.sep) {
-      const s = bv.sep;
-      data.push({ type: 'scatter', mode: 'lines', x: Array.from(s.dt, (t) => t * 1e9), y: Array.from(s.dE, (e) => e * k), line: { color: SEP_COLOUR, width: 1.6 }, name: 'separatrix' });
-    }
-    data.push({ type: 'scatter', mode: 'markers', x: bv.stableDt.map((t) => t * 1e9), y: bv.stableDt.map(() => 0), marker: { symbol: 'circle-open', size: 8, color: SEP_COLOUR }, name: 'stable fixed point' });
-    data.push({ type: 'scatter', mode: 'markers', x: bv.unstableDt.map((t) => t * 1e9), y: bv.unstableDt.map(() => 0), marker: { symbol: 'x-thin-open', size: 9, color: SEP_COLOUR, line: { width: 2, color: SEP_COLOUR } }, name: 'unstable fixed point' });
-    setRanges(topLayout.current, xr, yr);
+    const t = bucketTraces(bv, k);
     const edited = drawnFor.current !== valid;
     drawnFor.current = valid;
-    scheduleDraw('bucket', () => topRef.current && Plotly.react(topRef.current, data, topLayout.current, STATIC), BUCKET_GAP_MS, edited);
+    // A restyle of x and y would reset the axis types (Plotly then guesses them from the data at each redraw):
+    // update keeps them linear.
+    const restyle = () => topRef.current && Plotly.update(topRef.current, { x: t.x, y: t.y }, LINEAR, [0, 1, 2]);
+    const layOut = () => {
+      if (!topRef.current) return;
+      setRanges(topLayout.current, xr, yr);
+      laidOut.current = key;
+      Plotly.react(topRef.current, BUCKET_STYLE.map((d, i) => ({ ...d, x: t.x[i], y: t.y[i] }) as Data), topLayout.current, STATIC);
+    };
+    if (edited && laidOut.current) {
+      scheduleDraw('bucket', restyle, 0, true);
+      if (laidOut.current !== key) scheduleDraw('bucket', layOut);
+    } else scheduleDraw('bucket', laidOut.current === key ? restyle : layOut, BUCKET_GAP_MS);
   }, [bv, key]);
 
   // Beam layer: density image or points.
@@ -121,13 +165,13 @@ export function PhaseSpace() {
         const v = frame.view;
         const dx = (v.dtMax - v.dtMin) / v.nx, dy = (v.dEMax - v.dEMin) / v.ny;
         data.push({
-          type: 'heatmap', z: heatmapZ(frame.hist, v.nx, v.ny), x0: (v.dtMin + dx / 2) * 1e9, dx: dx * 1e9, y0: (v.dEMin + dy / 2) * k, dy: dy * k,
+          type: 'heatmap', ...heatmapZ(frame.hist, v.nx, v.ny), x0: (v.dtMin + dx / 2) * 1e9, dx: dx * 1e9, y0: (v.dEMin + dy / 2) * k, dy: dy * k,
           colorscale: DENSITY_SCALE, showscale: false, zsmooth: 'fast', name: 'density',
         } as Data);
       }
       if (beamRef.current) Plotly.react(beamRef.current, data, beamLayout.current, STATIC);
     }, BEAM_GAP_MS);
-  }, [frame, key, valid]);
+  }, [frame, key]);
 
   return (
     <section className="panel phase" aria-labelledby="phase-title">

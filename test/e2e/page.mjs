@@ -14,7 +14,7 @@ export async function waitReady(page, timeout = 20000) {
     const s = document.getElementById('status')?.textContent ?? '';
     const top = document.getElementById('plot-phase')?.data ?? [];
     const beam = document.getElementById('plot-phase-beam')?.data ?? [];
-    return s === 'ready' && top.some((t) => t.name === 'separatrix') && beam.some((t) => t.name === 'density' || t.name === 'particles');
+    return s === 'ready' && top.some((t) => t.name === 'separatrix' && t.x?.length > 0) && beam.some((t) => t.name === 'density' || t.name === 'particles');
   }, null, { timeout });
 }
 

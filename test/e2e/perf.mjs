@@ -97,7 +97,11 @@ async function separatrixMs(page, field, values) {
       const el = document.getElementById(field);
       const sum = document.getElementById('sum-area');
       const plot = document.getElementById('plot-phase');
-      const area0 = sum.dataset.value, sep0 = plot.data.find((t) => t.name === 'separatrix');
+      // The separatrix counts as updated when its data and its drawn SVG line have both changed (a restyle keeps
+      // the trace object and replaces its arrays).
+      const y0 = plot.data.find((t) => t.name === 'separatrix').y;
+      const line = () => plot.querySelector('.scatterlayer .trace path.js-line')?.getAttribute('d');
+      const area0 = sum.dataset.value, d0 = line();
       const setter = Object.getOwnPropertyDescriptor(HTMLInputElement.prototype, 'value').set;
       const t0 = performance.now();
       setter.call(el, String(v));
@@ -110,7 +114,7 @@ async function separatrixMs(page, field, values) {
           const now = performance.now();
           if (Number.isNaN(tArea) && sum.dataset.value !== area0) tArea = now - t0;
           const sep = plot.data.find((t) => t.name === 'separatrix');
-          if (!Number.isNaN(tArea) && sep !== sep0) resolve([tArea, now - t0]);
+          if (!Number.isNaN(tArea) && sep.y !== y0 && line() !== d0) resolve([tArea, now - t0]);
           else if (now - t0 > 5000) resolve([tArea, NaN]);
           else ch.port2.postMessage(null);
         };
