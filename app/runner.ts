@@ -4,7 +4,7 @@
 // Supervision: when the pool reports a failed or silent worker, a new pool replaces it, the notice bar says so,
 // and the same setup is generated again from turn 0 (the setup itself, and so the URL, is untouched).
 import type { Setup } from '../core/setup/schema.ts';
-import type { RunFrame, ViewWindow } from '../workers/protocol.ts';
+import type { RunFrame, RunRequest, ViewWindow } from '../workers/protocol.ts';
 import { TrackPool } from '../workers/pool.ts';
 import { bucketAt, type RunPoint } from './derived.ts';
 import { useApp, type AppState } from './store.ts';
@@ -13,15 +13,19 @@ import { drawsDue, holdDrawsWhile, resumeDraws, slowestDraw } from './views/sche
 
 /** Particle coordinates come back as points (not only a histogram) up to this count: SVG points stay a short draw. */
 export const POINTS_MAX = 5_000;
-/** Worker time budget per call [ms]: with the binning, a frame every ~35 ms (≥ 20 density pictures a second). */
+/** Worker time budget per call [ms], binning included: a frame every ~25-35 ms (≥ 20 density pictures a second). */
 const BUDGET_MS = 25;
+/** While running, the frame's line density is binned at most this often [ms] (the profile plot's redraw gap). */
+const PROFILE_EVERY_MS = 200;
+let lastProfile = -Infinity;
 /** Profiles kept for the waterfall. */
 const WATERFALL_ROWS = 300;
 
 let api: TrackPool | null = null;
 // Pool generation: answers from a replaced pool are dropped.
 let gen = 0;
-let busy = false;
+// Calls out to the pool. Tracking calls may be two deep with one unsplit worker (see PIPELINE); others go alone.
+let inflight = 0;
 let lastCall = 0;
 // Page and workers take turns (no drawing while a call is out, no call while draws are due) on one core, or when
 // drawing has become slow (the cores are busy elsewhere). Otherwise the workers track while the page draws (on 2
@@ -47,7 +51,7 @@ let redraw = false;
 export function startRunner(): void {
   api = newPool();
   // On one core, page and worker take turns: no drawing while a tracking call is out, no call while draws are due.
-  holdDrawsWhile(() => holdForDraws && busy && useApp.getState().running);
+  holdDrawsWhile(() => holdForDraws && inflight > 0 && useApp.getState().running);
   // Test hook, only with ?debug in the address: make a worker fail, read how many workers track.
   const q = new URLSearchParams(location.search);
   if (q.has('debug')) (window as unknown as { __phasewellDebug: unknown }).__phasewellDebug = {
@@ -76,7 +80,7 @@ function restart(why: string): void {
   const now = performance.now();
   failures = failures.filter((t) => now - t < RESTART_WINDOW_MS).concat(now);
   api?.terminate();
-  busy = false;
+  inflight = tracking = 0;
   if (failures.length > RESTART_MAX) {
     api = null;
     gen++;
@@ -123,7 +127,7 @@ export function pause(): void {
 
 /** All particles (alive first), for export. */
 export async function fetchParticles(): Promise<{ dt: Float64Array; dE: Float64Array; alive: number } | null> {
-  return api && !busy ? api.particles() : null;
+  return api && inflight === 0 ? api.particles() : null;
 }
 
 /** Number of workers tracking the current beam (1, or 2 when it is split). */
@@ -156,10 +160,18 @@ function tick(): void {
 // The next worker call, if one is wanted; also called as soon as a frame arrives, so the worker does not wait for
 // an animation frame between calls.
 function pump(): void {
-  if (busy || !api) return;
+  if (!api) return;
   const s = useApp.getState();
   const pool = api, g = gen;
   const turn = s.frame?.turn ?? 0;
+  if (inflight > 0) {
+    // One unsplit worker, tracking on two or more cores: queue the next call behind the one out, so the worker
+    // starts it at once instead of waiting for the page to take the frame and ask again (the page is often busy
+    // drawing). The goal travels as an absolute turn, so the queued call cannot overshoot it.
+    if (inflight === 1 && tracking === 1 && s.running && s.frame && !holdForDraws && pool.workers === 1 && turn < goal)
+      track(s, turn);
+    return;
+  }
   if (s.beamEpoch !== sentEpoch || needsNewBeam(sentSetup, s.valid, turn)) {
     const setup = s.valid;
     sentEpoch = s.beamEpoch;
@@ -169,9 +181,9 @@ function pump(): void {
   } else if (s.valid !== sentSetup) {
     const setup = s.valid;
     sentSetup = setup;
-    busy = true;
+    inflight++;
     lastCall = performance.now();
-    pool.updateSetup(setup).then(() => { if (g === gen) busy = false; }, (e) => { if (g !== gen) return; busy = false; fail(String((e as Error).message ?? e)); });
+    pool.updateSetup(setup).then(() => { if (g === gen) inflight--; }, (e) => { if (g !== gen) return; inflight--; fail(String((e as Error).message ?? e)); });
   } else if (redraw && !s.running && s.frame) {
     redraw = false;
     call(() => api!.run({ turns: 0, budgetMs: BUDGET_MS, view: view!, pointsMax: POINTS_MAX }), false, 'binning');
@@ -181,27 +193,45 @@ function pump(): void {
     if (holdForDraws && drawsDue()) return;
     if (turn >= goal) useApp.setState({ running: false, status: 'done', statusMessage: `stopped at turn ${turn}` });
     else {
-      const turns = Math.min(s.turnsPerFrame, goal - turn);
-      // The call that can reach the goal computes the final diagnostics even off a logging turn.
-      const req = { turns, budgetMs: BUDGET_MS, view: view!, pointsMax: POINTS_MAX, fresh: turn + turns >= goal };
-      call(() => api!.run(req), false, 'tracking');
+      track(s, turn);
+      pump(); // a second call, queued behind this one, where that helps
     }
   } else if (performance.now() - lastCall > HEARTBEAT_MS) {
     lastCall = performance.now();
-    busy = true;
-    pool.ping().then(() => { if (g === gen) busy = false; }, () => { if (g === gen) busy = false; });
+    inflight++;
+    pool.ping().then(() => { if (g === gen) inflight--; }, () => { if (g === gen) inflight--; });
   }
 }
 
+// Tracking calls out (a second one may be queued behind the first).
+let tracking = 0;
+
+function track(s: AppState, turn: number): void {
+  const req = trackRequest(s, turn), g = gen;
+  tracking++;
+  call(() => api!.run(req).finally(() => { if (g === gen) tracking--; }), false, 'tracking');
+}
+
+// The next tracking call from the last frame the page has: turns up to the goal (an unsplit worker also gets the
+// goal itself, for a queued call); the call that can reach the goal computes the final diagnostics even off a
+// logging turn, and bins the line density, which otherwise is binned only every PROFILE_EVERY_MS.
+function trackRequest(s: AppState, turn: number): RunRequest {
+  const turns = Math.min(s.turnsPerFrame, goal - turn);
+  const last = turn + turns >= goal;
+  const profile = last || performance.now() - lastProfile >= PROFILE_EVERY_MS;
+  if (profile) lastProfile = performance.now();
+  return { turns, until: goal, budgetMs: BUDGET_MS, view: { ...view!, profile }, pointsMax: POINTS_MAX, fresh: last };
+}
+
 function call(fn: () => Promise<RunFrame>, fresh: boolean, what: string): void {
-  busy = true;
+  inflight++;
   lastCall = performance.now();
   const g = gen;
   if (fresh) useApp.setState({ statusMessage: what });
   fn().then(
     (f) => {
       if (g !== gen) return; // from a replaced pool
-      busy = false;
+      inflight--;
       const t = performance.now();
       accept(f, fresh);
       if (!holdForDraws && useApp.getState().running) setTimeout(pump); // no wait for an animation frame
@@ -211,7 +241,7 @@ function call(fn: () => Promise<RunFrame>, fresh: boolean, what: string): void {
     },
     (e) => {
       if (g !== gen) return;
-      busy = false;
+      inflight--;
       fail(String((e as Error)?.message ?? e));
     },
   );

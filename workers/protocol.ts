@@ -24,13 +24,26 @@ export interface ViewWindow {
   /** Histogram bins along dt and dE. */
   nx: number;
   ny: number;
+  /**
+   * Bin the frame's line density too (default true). The profile plot redraws a few times a second while the
+   * picture follows every frame, so the page asks for it only that often (logged profiles are always binned).
+   */
+  profile?: boolean;
 }
 
 /** One tracking call. */
 export interface RunRequest {
   /** Turns to track at most in this call. */
   turns: number;
-  /** Stop after the first turn that ends past this many milliseconds (keeps each call short). */
+  /**
+   * Track no further than this turn (absolute); a call that reaches it computes fresh diagnostics. Lets the page
+   * queue a call behind another without overshooting its goal (one worker; the split pool counts `turns` only).
+   */
+  until?: number;
+  /**
+   * Time budget of the call [ms], binning included: no turn starts that is expected to end past it (at least one
+   * turn is tracked), so frames come at a steady pace.
+   */
   budgetMs: number;
   view: ViewWindow;
   /** Return the particle coordinates when at most this many are alive. */
@@ -57,7 +70,7 @@ export interface RunFrame {
   view: ViewWindow;
   /** histogram2d counts, row-major [dE bin][dt bin]. */
   hist: Float32Array;
-  /** Line density over [dtMin, dtMax] in run.profileBins bins. */
+  /** Line density over [dtMin, dtMax] in run.profileBins bins; empty when view.profile was false. */
   profile: Float64Array;
   points: { dt: Float64Array; dE: Float64Array } | null;
   /** Matched-bunch numbers of a freshly generated matched beam (init/reset frames only; null otherwise). */
@@ -118,7 +131,7 @@ export interface PartFrame {
   total: number;
   /** histogram2d counts of this part (null without a view). */
   hist: Float32Array | null;
-  /** Line density of this part, normalised to its own alive count (null without a view). */
+  /** Line density of this part, normalised to its own alive count (null without a view, empty when view.profile is false). */
   profile: Float64Array | null;
   matched?: MatchedInfo | null;
   events?: MachineEvent[];

@@ -15,6 +15,9 @@ let setup: Setup | null = null;
 let tracker: Tracker | null = null;
 // The last diagnostics computed: stands in for the current state between logging turns (each costs ~tens of ms at 1e6).
 let lastDiag: DiagRow | null = null;
+// Milliseconds the last picture took to bin (histogram, and profile when asked): run() keeps room for it.
+let binMs = 0;
+const NO_PROFILE = new Float64Array(0);
 
 function need(): { s: Setup; t: Tracker } {
   if (!setup || !tracker) throw new Error('the tracker has no beam yet: call init(setup) first');
@@ -25,6 +28,11 @@ function diagnose(t: Tracker, s: Setup): DiagRow {
   const m: MachineState = t.machine;
   const b = computeBucket(m);
   return (lastDiag = computeDiagnostics(t.bunch, m, b.ok ? b.bucket : null, s.run.profileBins));
+}
+
+// The frame's line density, or an empty array when the page did not ask for one this time.
+function frameProfile(t: Tracker, bins: number, v: ViewWindow): Float64Array {
+  return v.profile === false ? NO_PROFILE : profileOf(t, bins, v);
 }
 
 function profileOf(t: Tracker, bins: number, v: ViewWindow): Float64Array {
@@ -47,8 +55,10 @@ function histOf(t: Tracker, v: ViewWindow): Float32Array {
 function frameOf(rows: DiagRow[], profiles: RunFrame['profiles'], v: ViewWindow, pointsMax: number, trackMs: number, turnsDone: number, fresh: boolean): RunFrame {
   const { s, t } = need();
   const b = t.bunch;
+  const t0 = performance.now();
   const hist = histOf(t, v);
-  const profile = profileOf(t, s.run.profileBins, v);
+  const profile = frameProfile(t, s.run.profileBins, v);
+  binMs = performance.now() - t0;
   const points = b.n <= pointsMax ? { dt: b.dt.slice(0, b.n), dE: b.dE.slice(0, b.n) } : null;
   const m = t.machine;
   // The last logged row is the current state when it was taken this turn: diagnostics cost more than a turn.
@@ -58,7 +68,8 @@ function frameOf(rows: DiagRow[], profiles: RunFrame['profiles'], v: ViewWindow,
     turn: t.turn, time: m.time, Es: m.Es, pc: m.pc, current, rows, profiles, view: v, hist, profile, points, trackMs, turnsDone,
     events: m.events.slice(-MAX_EVENTS),
   };
-  const buffers: ArrayBuffer[] = [hist.buffer as ArrayBuffer, profile.buffer as ArrayBuffer, ...profiles.map((p) => p.profile.buffer as ArrayBuffer)];
+  const buffers: ArrayBuffer[] = [hist.buffer as ArrayBuffer, ...profiles.map((p) => p.profile.buffer as ArrayBuffer)];
+  if (profile.length) buffers.push(profile.buffer as ArrayBuffer);
   if (points) buffers.push(points.dt.buffer as ArrayBuffer, points.dE.buffer as ArrayBuffer);
   return Comlink.transfer(frame, buffers);
 }
@@ -78,12 +89,13 @@ function partFrame(v: ViewWindow | null, trackMs: number, turnsDone: number): Pa
   const { s, t } = need();
   const m = t.machine;
   const hist = v ? histOf(t, v) : null;
-  const profile = v ? profileOf(t, s.run.profileBins, v) : null;
+  const profile = v ? frameProfile(t, s.run.profileBins, v) : null;
   const f: PartFrame = {
     turn: t.turn, time: m.time, Es: m.Es, pc: m.pc, alive: t.bunch.n, total: t.bunch.total, hist, profile, trackMs, turnsDone,
     events: m.events.slice(-MAX_EVENTS),
   };
-  return Comlink.transfer(f, hist && profile ? [hist.buffer as ArrayBuffer, profile.buffer as ArrayBuffer] : []);
+  const buffers = [hist, profile].filter((a) => a !== null && a.length > 0).map((a) => a!.buffer as ArrayBuffer);
+  return Comlink.transfer(f, buffers);
 }
 
 const api: TrackApi = {
@@ -93,22 +105,28 @@ const api: TrackApi = {
   async run(req: RunRequest) {
     const { s, t } = need();
     const every = s.run.diagnosticsEvery;
+    const until = req.until ?? Infinity;
     const rows: DiagRow[] = [];
     const profiles: RunFrame['profiles'] = [];
+    // A call queued behind the one that reached the goal: nothing left to track, the diagnostics are current.
+    if (req.turns > 0 && t.turn >= until) return frameOf(rows, profiles, req.view, req.pointsMax, 0, 0, false);
     const t0 = performance.now();
     let done = 0, trackMs = 0;
-    while (done < req.turns) {
+    while (done < req.turns && t.turn < until) {
       const t1 = performance.now();
       t.track(1);
-      trackMs += performance.now() - t1;
+      const turnMs = performance.now() - t1;
+      trackMs += turnMs;
       done++;
       if (t.turn % every === 0) {
         rows.push(diagnose(t, s));
         profiles.push(profileRow(t, s, req.view));
       }
-      if (performance.now() - t0 > req.budgetMs) break;
+      // Stop when one more turn and the picture would end past the budget: frames then come at a steady pace.
+      if (performance.now() - t0 + turnMs + binMs > req.budgetMs) break;
     }
-    return frameOf(rows, profiles, req.view, req.pointsMax, trackMs, done, req.fresh === true || req.turns === 0);
+    const fresh = req.fresh === true || req.turns === 0 || t.turn >= until;
+    return frameOf(rows, profiles, req.view, req.pointsMax, trackMs, done, fresh);
   },
   async updateSetup(s) {
     need().t.updateSetup(s);

@@ -28,7 +28,7 @@ export function Profile() {
   });
   const frame = useApp((s) => s.frame);
   useEffect(() => {
-    if (!frame) return;
+    if (!frame || frame.profile.length === 0) return; // not binned this frame (runner: PROFILE_EVERY_MS)
     const v = frame.view;
     const y = Float64Array.from(frame.profile, (p) => p * 1e-9);
     const data: Data[] = [{ type: 'scatter', mode: 'lines', x: binCentresNs(v.dtMin, v.dtMax, y.length), y, line: { color: '#1f3b5c', width: 1.4, shape: 'hvh' }, fill: 'tozeroy', fillcolor: 'rgba(63,111,153,0.15)', hoverinfo: 'x+y' } as Data];

@@ -62,7 +62,7 @@ export function Waterfall() {
     L.datarevision = (L.datarevision as number) + 1;
     // Built when drawn, not per frame: the history is redrawn only a few times a second.
     const draw = () => {
-      const n = frame.profile.length;
+      const n = profiles[profiles.length - 1].profile.length;
       const data: Data[] = [{
         type: 'heatmap', z: profiles.map((r) => rowFor(r, v.dtMin, v.dtMax, n)), x: Array.from(binCentresNs(v.dtMin, v.dtMax, n)),
         y: profiles.map((p) => p.turn), colorscale: DENSITY_SCALE, showscale: false, zsmooth: 'fast',
