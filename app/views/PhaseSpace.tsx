@@ -73,8 +73,9 @@ type LayerKind = 'axes' | 'beam' | 'bucket';
 
 function layer(kind: LayerKind): Partial<Layout> {
   const on = kind === 'axes';
-  // type 'linear' spares Plotly guessing the axis type from the data at every redraw.
-  const axis = { type: 'linear' as const, zeroline: on, zerolinecolor: '#cfd3d8', showgrid: on, showticklabels: on, ticks: on ? ('outside' as const) : ('' as const), autorange: false };
+  // type 'linear' spares Plotly guessing the axis type from the data at every redraw; invisible axes on the upper
+  // layers keep their ranges but draw no ticks, grid or lines.
+  const axis = { type: 'linear' as const, visible: on, zeroline: on, zerolinecolor: '#cfd3d8', showgrid: on, showticklabels: on, ticks: on ? ('outside' as const) : ('' as const), autorange: false };
   return {
     ...BASE_LAYOUT,
     margin: { l: 60, r: 14, t: 8, b: 42 },
