@@ -229,9 +229,10 @@ function kernelBody(rf: number, drift: DriftKind, induced = false): Code {
     [...i32.ltu(g(PT), g(PEND)), 0x0d, 0, 0x0b, 0x0b], // br_if 0 (loop); end loop; end block
   ];
   // Chunks of CHUNK particles (in L1): all kicks of the chunk, then (with an induced stage) all its induced kicks,
-  // then all drifts, and the deposits (in the drift's loop after a linear drift, in their own after the exact one). The exact drift's sqrt and division, and the induced stage's table look-ups,
-  // make long dependency chains; fused into one body, too few pairs fit the out-of-order window.
-  const split = rf > 0 && (drift === 'exact' || induced);
+  // then all drifts, and the deposits (in the drift's loop after a linear drift, in their own after the exact one).
+  // The exact drift's sqrt and division, two or more sines, and the induced stage's table look-ups make long
+  // dependency chains; fused into one body, too few pairs fit the out-of-order window (2 RF, linear: +20 %).
+  const split = rf > 0 && (drift === 'exact' || induced || rf > 1); // one RF + linear drift: fused is as fast
   const depositInDrift = induced && drift === 'linear'; // short enough together; after the exact drift, apart
   const kickPass = (body: Code[]): Code[] => [
     set(QT, g(PT)), set(QE, g(PE)),
