@@ -157,6 +157,12 @@ describe('profiles', () => {
     for (let i = 0; i < N; i++)
       if (Math.abs(b.dt[i] - mT) < 3 * sT && Math.abs(b.dE[i] - mE) < 3 * sE) inside++;
     expect(big.reduce((a, v) => a + v, 0)).toBeCloseTo(inside, 6);
+    // The profile taken in the same pass is lineDensity's, bin for bin.
+    const prof = new Float64Array(77), ref = new Float64Array(77);
+    histogram2d(b, mT - 3 * sT, mT + 3 * sT, mE - 3 * sE, mE + 3 * sE, 50, 40, big, prof);
+    lineDensity(b, mT - 3 * sT, mT + 3 * sT, ref);
+    expect(prof).toEqual(ref);
+    expect(prof.reduce((a, v) => a + v, 0)).toBeGreaterThan(0);
   });
 
   it('fwhm of a triangle of half-width 4 is 4 (exact: the crossings fall on bin centres)', () => {

@@ -30,11 +30,6 @@ function diagnose(t: Tracker, s: Setup): DiagRow {
   return (lastDiag = computeDiagnostics(t.bunch, m, b.ok ? b.bucket : null, s.run.profileBins));
 }
 
-// The frame's line density, or an empty array when the page did not ask for one this time.
-function frameProfile(t: Tracker, bins: number, v: ViewWindow): Float64Array {
-  return v.profile === false ? NO_PROFILE : profileOf(t, bins, v);
-}
-
 function profileOf(t: Tracker, bins: number, v: ViewWindow): Float64Array {
   const out = new Float64Array(bins);
   lineDensity(t.bunch, v.dtMin, v.dtMax, out);
@@ -45,9 +40,9 @@ function profileRow(t: Tracker, s: Setup, v: ViewWindow): ProfileRow {
   return { turn: t.turn, dtMin: v.dtMin, dtMax: v.dtMax, profile: profileOf(t, s.run.profileBins, v) };
 }
 
-function histOf(t: Tracker, v: ViewWindow): Float32Array {
+function histOf(t: Tracker, v: ViewWindow, profile?: Float64Array): Float32Array {
   const hist = new Float32Array(v.nx * v.ny);
-  histogram2d(t.bunch, v.dtMin, v.dtMax, v.dEMin, v.dEMax, v.nx, v.ny, hist);
+  histogram2d(t.bunch, v.dtMin, v.dtMax, v.dEMin, v.dEMax, v.nx, v.ny, hist, profile);
   return hist;
 }
 
@@ -56,8 +51,8 @@ function frameOf(rows: DiagRow[], profiles: RunFrame['profiles'], v: ViewWindow,
   const { s, t } = need();
   const b = t.bunch;
   const t0 = performance.now();
-  const hist = histOf(t, v);
-  const profile = frameProfile(t, s.run.profileBins, v);
+  const profile = v.profile === false ? NO_PROFILE : new Float64Array(s.run.profileBins);
+  const hist = histOf(t, v, profile.length ? profile : undefined); // picture and profile in one pass
   binMs = performance.now() - t0;
   const points = b.n <= pointsMax ? { dt: b.dt.slice(0, b.n), dE: b.dE.slice(0, b.n) } : null;
   const m = t.machine;
@@ -88,8 +83,8 @@ function start(s: Setup, v: ViewWindow, pointsMax: number): RunFrame {
 function partFrame(v: ViewWindow | null, trackMs: number, turnsDone: number): PartFrame {
   const { s, t } = need();
   const m = t.machine;
-  const hist = v ? histOf(t, v) : null;
-  const profile = v ? frameProfile(t, s.run.profileBins, v) : null;
+  const profile = v ? (v.profile === false ? NO_PROFILE : new Float64Array(s.run.profileBins)) : null;
+  const hist = v ? histOf(t, v, profile?.length ? profile : undefined) : null;
   const f: PartFrame = {
     turn: t.turn, time: m.time, Es: m.Es, pc: m.pc, alive: t.bunch.n, total: t.bunch.total, hist, profile, trackMs, turnsDone,
     events: m.events.slice(-MAX_EVENTS),

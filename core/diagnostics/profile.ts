@@ -14,26 +14,47 @@ export function lineDensity(b: Bunch, dtMin: number, dtMax: number, out: Float64
   const dt = b.dt;
   const inv = nx / (dtMax - dtMin);
   for (let i = 0; i < n; i++) {
-    const ix = Math.floor((dt[i] - dtMin) * inv);
-    if (ix >= 0 && ix < nx) out[ix] += 1;
+    const x = (dt[i] - dtMin) * inv;
+    if (x >= 0 && x < nx) out[x | 0] += 1; // x ≥ 0: truncation is the floor
   }
   const scale = inv / n;
   for (let i = 0; i < nx; i++) out[i] *= scale;
 }
 
-/** Counts of alive particles on an nx × ny grid over [dtMin, dtMax) × [dEMin, dEMax), row-major out[iy·nx + ix]. */
+// Integer counts for histogram2d, reused (a Float32Array cell incremented per particle converts on every add).
+let counts = new Int32Array(0);
+
+/**
+ * Counts of alive particles on an nx × ny grid over [dtMin, dtMax) × [dEMin, dEMax), row-major out[iy·nx + ix].
+ * With `profile`, also the line density over [dtMin, dtMax) on profile.length bins, exactly as lineDensity gives
+ * it, from the same pass over the particles (a picture and its profile cost one pass).
+ */
 export function histogram2d(
   b: Bunch, dtMin: number, dtMax: number, dEMin: number, dEMax: number, nx: number, ny: number, out: Float32Array,
+  profile?: Float64Array,
 ): void {
   if (out.length < nx * ny) throw new Error(`histogram2d: out has ${out.length} cells, needs nx·ny = ${nx * ny}`);
   out.fill(0);
-  if (!(dtMax > dtMin) || !(dEMax > dEMin)) return;
+  const np = profile ? profile.length : 0;
+  if (profile) profile.fill(0);
+  if (!(dtMax > dtMin)) return;
+  const cells = nx * ny;
+  if (counts.length < cells + np) counts = new Int32Array(cells + np);
+  const c = counts;
+  c.fill(0, 0, cells + np);
   const dt = b.dt, dE = b.dE, n = b.n;
-  const ix0 = nx / (dtMax - dtMin), iy0 = ny / (dEMax - dEMin);
+  const ix0 = nx / (dtMax - dtMin), iy0 = dEMax > dEMin ? ny / (dEMax - dEMin) : NaN, ip0 = np / (dtMax - dtMin);
+  // x ≥ 0 is tested first, so truncation (x | 0) is the floor; NaN fails every test.
   for (let i = 0; i < n; i++) {
-    const ix = Math.floor((dt[i] - dtMin) * ix0);
-    const iy = Math.floor((dE[i] - dEMin) * iy0);
-    if (ix >= 0 && ix < nx && iy >= 0 && iy < ny) out[iy * nx + ix] += 1;
+    const u = dt[i] - dtMin;
+    const x = u * ix0, y = (dE[i] - dEMin) * iy0, p = u * ip0;
+    if (p >= 0 && p < np) c[cells + (p | 0)]++;
+    if (x >= 0 && x < nx && y >= 0 && y < ny) c[(y | 0) * nx + (x | 0)]++;
+  }
+  for (let k = 0; k < cells; k++) out[k] = c[k];
+  if (profile && n > 0) {
+    const scale = ip0 / n;
+    for (let k = 0; k < np; k++) profile[k] = c[cells + k] * scale;
   }
 }
 
