@@ -3,8 +3,8 @@
 // stacked with the same margins and ranges: axes (bottom; redrawn only when the window changes), beam (every
 // frame) and bucket (when the bucket changes). The two upper layers have no axes to draw, so each redraw
 // stays a short task. The window sticks until the bucket or beam clearly outgrows it (the rule the runner bins
-// by), so a ramp or a small edit redraws no axes, and an edit only restyles the bucket layer's three traces, in
-// the edit's own task: the new separatrix shows in the same frame as the new bucket numbers.
+// by), so a ramp or a small edit redraws no axes, and an edit writes the bucket layer's new lines into its SVG in
+// the edit's own task (Plotly's update follows): the new separatrix shows in the same frame as the new numbers.
 import { useEffect, useRef } from 'react';
 import type { Data, Layout } from 'plotly.js';
 import Plotly from '../plotly.ts';
@@ -15,6 +15,7 @@ import { energyUnit } from '../units.ts';
 import { chooseWindow, needsRefit } from '../viewWindow.ts';
 import type { ViewWindow } from '../../workers/protocol.ts';
 import type { BucketView } from '../derived.ts';
+import { writeTraces } from './fastLine.ts';
 import { BASE_LAYOUT } from './Panel.tsx';
 import { savePng } from './png.ts';
 import { scheduleDraw } from './schedule.ts';
@@ -145,8 +146,13 @@ export function PhaseSpace() {
       Plotly.react(topRef.current, BUCKET_STYLE.map((d, i) => ({ ...d, x: t.x[i], y: t.y[i] }) as Data), topLayout.current, STATIC);
     };
     if (edited && laidOut.current) {
-      scheduleDraw('bucket', restyle, 0, true);
-      if (laidOut.current !== key) scheduleDraw('bucket', layOut);
+      // In the edit's task: the new lines straight into the layer's SVG (fastLine.ts; same window and units only),
+      // else Plotly's update at once. Plotly's own update (or a new window's layout) follows in the draw queue.
+      if (laidOut.current === key && topRef.current && writeTraces(topRef.current, t.x, t.y)) scheduleDraw('bucket', restyle);
+      else {
+        scheduleDraw('bucket', restyle, 0, true);
+        if (laidOut.current !== key) scheduleDraw('bucket', layOut);
+      }
     } else scheduleDraw('bucket', laidOut.current === key ? restyle : layOut, BUCKET_GAP_MS);
   }, [bv, key]);
 

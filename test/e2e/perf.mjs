@@ -97,11 +97,21 @@ async function separatrixMs(page, field, values) {
       const el = document.getElementById(field);
       const sum = document.getElementById('sum-area');
       const plot = document.getElementById('plot-phase');
-      // The separatrix counts as updated when its data and its drawn SVG line have both changed (a restyle keeps
-      // the trace object and replaces its arrays).
-      const y0 = plot.data.find((t) => t.name === 'separatrix').y;
-      const line = () => plot.querySelector('.scatterlayer .trace path.js-line')?.getAttribute('d');
+      // The separatrix counts as updated when its drawn SVG line has changed (what one sees); its data in Plotly
+      // must follow too (checked after the timing).
+      const path = () => plot.querySelector('.scatterlayer .trace path.js-line');
+      const line = () => path()?.getAttribute('d');
       const area0 = sum.dataset.value, d0 = line();
+      window.__sepY0 = plot.data.find((t) => t.name === 'separatrix').y;
+      // The drawn line's box in data units [x0, x1, y0, y1], from the layout's ranges and margins and the element's
+      // size (independent of how the line was drawn): the window may change between two drawings.
+      window.__sepBox = () => {
+        const b = plot.querySelector('.scatterlayer .trace path.js-line').getBBox();
+        const L = plot.layout, m = L.margin, w = plot.clientWidth - m.l - m.r, h = plot.clientHeight - m.t - m.b;
+        const [x0, x1] = L.xaxis.range, [y0, y1] = L.yaxis.range;
+        const X = (p) => x0 + (p / w) * (x1 - x0), Y = (p) => y1 - (p / h) * (y1 - y0);
+        return { box: [X(b.x), X(b.x + b.width), Y(b.y + b.height), Y(b.y)], px: [(x1 - x0) / w, (y1 - y0) / h] };
+      };
       const setter = Object.getOwnPropertyDescriptor(HTMLInputElement.prototype, 'value').set;
       const t0 = performance.now();
       setter.call(el, String(v));
@@ -113,8 +123,10 @@ async function separatrixMs(page, field, values) {
         ch.port1.onmessage = () => {
           const now = performance.now();
           if (Number.isNaN(tArea) && sum.dataset.value !== area0) tArea = now - t0;
-          const sep = plot.data.find((t) => t.name === 'separatrix');
-          if (!Number.isNaN(tArea) && sep.y !== y0 && line() !== d0) resolve([tArea, now - t0]);
+          if (!Number.isNaN(tArea) && line() !== d0) {
+            window.__firstBox = window.__sepBox(); // the first drawing of the new line
+            resolve([tArea, now - t0]);
+          }
           else if (now - t0 > 5000) resolve([tArea, NaN]);
           else ch.port2.postMessage(null);
         };
@@ -122,6 +134,14 @@ async function separatrixMs(page, field, values) {
       });
     }, [field, v]));
     await page.waitForTimeout(1500); // each edit redraws several plots (~250 ms of Plotly): start the next on an idle page
+    // By now Plotly holds the new data and has redrawn the line itself: the first drawing must match its box (1 px).
+    const check = await page.evaluate(() => {
+      const plot = document.getElementById('plot-phase');
+      return { followed: plot.data.find((t) => t.name === 'separatrix').y !== window.__sepY0, now: window.__sepBox(), first: window.__firstBox };
+    });
+    assert(check.followed, `Plotly's separatrix data did not follow the edit to ${v}`);
+    const tol = (i) => 1.5 * Math.max(check.now.px[i >> 1], check.first.px[i >> 1]); // 1.5 px in the coarser drawing
+    assert(check.now.box.every((q, i) => Math.abs(q - check.first.box[i]) <= tol(i)), `first drawing ${check.first.box} vs Plotly's ${check.now.box} (edit to ${v})`);
   }
   const med = (i) => times.map((t) => t[i]).sort((a, b) => a - b)[Math.floor(times.length / 2)];
   return { numbersMs: med(0), separatrixMs: med(1) };
