@@ -58,6 +58,7 @@ export function startRunner(): void {
     failWorker: (how: 'throw' | 'close' | 'hang', k = 0) => api?.debugFail(how, k),
     workers: () => api?.workers ?? 0,
     memory: () => api?.memory(),
+    kernelSpeeds: () => api?.kernelSpeeds(),
     // Turns and worker milliseconds summed over the frames received (the browser benchmark reads Mpt/s from them).
     stats: () => ({ ...stats }),
     resetStats: () => { stats.turns = 0; stats.trackMs = 0; stats.frames = 0; },

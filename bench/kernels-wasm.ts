@@ -5,10 +5,10 @@
 // Each figure is the median of RUNS timed runs after one warm-up run. Not a test: nothing here passes or fails.
 import { performance } from 'node:perf_hooks';
 import { Worker } from 'node:worker_threads';
-import { createJsKernel, createWasmKernel, makeDriftParams, makeKickParams, type TurnKernel } from '../core/kernels/index.ts';
+import { createJsKernel, createWasmKernel, type TurnKernel } from '../core/kernels/index.ts';
 import { wasmApi } from '../core/kernels/wasm.ts';
+import { kernelSpeed } from '../core/kernels/speed.ts';
 import { buildKernelModule, HEAP_BASE, kernelName, PARAM } from '../core/kernels/wasmModule.ts';
-import { makeRng } from '../core/rng.ts';
 
 const RUNS = 7;
 const PARTICLES = 1_000_000;
@@ -33,34 +33,9 @@ function median(xs: number[]): number {
   return s[Math.floor(s.length / 2)];
 }
 
-function run(kernel: TurnKernel, rf: number, drift: 'linear' | 'exact'): KernelCase {
-  const kick = makeKickParams();
-  kick.count = rf;
-  kick.amplitude[0] = 60e3; kick.omega[0] = 8 * w0; kick.phase[0] = 0.1;
-  kick.amplitude[1] = 30e3; kick.omega[1] = 16 * w0; kick.phase[1] = Math.PI + 0.2;
-  kick.dEsync = kernel.syncGain(kick);
-  const d = makeDriftParams(drift);
-  d.slip = (T0 * eta0) / (beta2 * Es);
-  d.period = T0; d.Es = Es; d.beta2 = beta2; d.gamma2 = gamma2; d.alpha0 = alpha0;
-  const limits = { dtMax: T0 / 2, dEmax: 0.5 * Es };
-  const cols = kernel.allocColumns(PARTICLES);
-  const rng = makeRng(1);
-  const sigT = 0.05 / (8 * w0);
-  const mpts: number[] = [];
-  for (let r = 0; r <= RUNS; r++) {
-    for (let i = 0; i < PARTICLES; i++) {
-      cols.dt[i] = sigT * rng.normal();
-      cols.dE[i] = 1e5 * rng.normal();
-    }
-    const t0 = performance.now();
-    let lost = 0;
-    for (let t = 0; t < TURNS; t++) lost += kernel.kickDrift(cols, PARTICLES, kick, d, limits);
-    const s = (performance.now() - t0) / 1e3;
-    if (lost !== 0) throw new Error(`bench bunch lost ${lost} particle-turns`);
-    if (r > 0) mpts.push((PARTICLES * TURNS) / s / 1e6); // run 0 is the warm-up
-  }
-  kernel.freeColumns(cols);
-  return { name: `${rf} RF, ${drift} drift`, particles: PARTICLES, turns: TURNS, rfSystems: rf, drift, threads: 1, impl: kernel.impl, mpts: median(mpts) };
+function run(kernel: TurnKernel, rf: 1 | 2, drift: 'linear' | 'exact'): KernelCase {
+  const k = kernelSpeed(kernel, rf, drift, PARTICLES, TURNS, RUNS);
+  return { name: `${rf} RF, ${drift} drift`, particles: k.particles, turns: k.turns, rfSystems: rf, drift, threads: 1, impl: k.impl, mpts: k.mpts };
 }
 
 // The worker: plain JavaScript (evaluated, so no TypeScript loader is needed in the thread). As in the app's split

@@ -8,6 +8,7 @@
 // either way `onFailure` is told once, and the runner replaces the pool.
 import * as Comlink from 'comlink';
 import { diagnosticsFromParts, mergeMoments } from '../core/diagnostics/index.ts';
+import type { KernelSpeed } from '../core/kernels/speed.ts';
 import type { Setup } from '../core/setup/schema.ts';
 import type { DiagRow, PartFrame, ProfileRow, RunFrame, RunRequest, TrackApi, ViewWindow } from './protocol.ts';
 
@@ -51,6 +52,11 @@ export class TrackPool {
     this.failed = true;
     for (const m of this.members) m.worker.terminate();
     this.members = [];
+  }
+
+  /** Benchmark hook: the turn kernel's speed alone in the first worker. */
+  kernelSpeeds(): Promise<KernelSpeed[]> {
+    return this.guard(this.member(0).api.kernelSpeeds(), 60_000, 'kernel benchmark');
   }
 
   /** Test hook: make worker k fail in the given way. */

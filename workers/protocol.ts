@@ -1,4 +1,5 @@
 // Messages between the page and the tracking worker. Units as in core: dt in s, dE in eV, time in s.
+import type { KernelSpeed } from '../core/kernels/speed.ts';
 import type { Setup } from '../core/setup/schema.ts';
 import type { PartialMoments, PartialShape, TurnDiagnostics } from '../core/diagnostics/index.ts';
 import type { MatchedInfo } from '../core/beam/index.ts';
@@ -111,6 +112,8 @@ export interface TrackApi {
   memory(): Promise<{ bufferBytes: number; heapBytes: number | null }>;
   /** Answer at once (the page's heartbeat while idle). */
   ping(): Promise<number>;
+  /** Benchmark hook: speed of the turn kernel alone in this worker, 1e6 particles (core/kernels/speed.ts). */
+  kernelSpeeds(): Promise<KernelSpeed[]>;
   /** Test hook: make this worker fail ('throw' an uncaught error, 'close' itself, or 'hang' in a busy loop). */
   debugFail(how: 'throw' | 'close' | 'hang'): Promise<void>;
 }

@@ -8,6 +8,7 @@ import { bunchFrom } from '../core/bunch.ts';
 import { computeDiagnostics, histogram2d, lineDensity, partialMoments, partialShape } from '../core/diagnostics/index.ts';
 import { machineAtStart, type MachineState } from '../core/machine.ts';
 import type { Setup } from '../core/setup/schema.ts';
+import { kernelSpeeds } from '../core/kernels/speed.ts';
 import { Tracker } from '../core/tracker.ts';
 import { MAX_EVENTS, type DiagRow, type PartFrame, type ProfileRow, type RunFrame, type RunRequest, type TrackApi, type ViewWindow } from './protocol.ts';
 
@@ -180,6 +181,9 @@ const api: TrackApi = {
   },
   async ping() {
     return tracker?.turn ?? -1;
+  },
+  async kernelSpeeds() {
+    return kernelSpeeds();
   },
   async debugFail(how) {
     if (how === 'close') self.close();

@@ -1,6 +1,7 @@
 // Speed and size checks of the built app, and the browser benchmark: prints the figures the README's "Speed"
 // table quotes (frames per second with 1e6 particles, long tasks, separatrix update times, Mpt/s in the workers
-// for one and two workers, worker memory). Frame rate and speed-up are printed, not asserted: on a shared 2-core
+// for one and two workers, the turn kernel alone in a worker, worker memory). Frame rate and speed-up are
+// printed, not asserted: on a shared 2-core
 // machine they follow the load of the neighbours (the load average is printed beside them). Asserted: the size
 // budget, that two workers give the same diagnostics as one, and loose floors that catch a stalled page.
 import { readdirSync, readFileSync, statSync } from 'node:fs';
@@ -221,6 +222,12 @@ export const perfTests = [
       await waitReady(page);
       const several = await separatrixMs(page, 'f-rf-systems-0-voltage', [21000, 22000, 23000, 24000, 25000]);
       console.log(`     edit → bucket numbers / separatrix drawn [ms, median of 5]: 1 RF ${one.numbersMs.toFixed(1)} / ${one.separatrixMs.toFixed(1)}; 2 RF ${several.numbersMs.toFixed(1)} / ${several.separatrixMs.toFixed(1)}; ${load()}`);
+      // The turn kernel alone in the tracking worker (core/kernels/speed.ts), on an idle page.
+      const kp = await open(ctx, url, '?debug', null);
+      const ks = await kp.evaluate(() => window.__phasewellDebug.kernelSpeeds());
+      await kp.close();
+      console.log(`     turn kernel alone in a Chromium worker, 1e6 particles: ${ks.map((k) => `${k.rfSystems} RF ${k.drift} ${k.mpts.toFixed(0)}`).join(', ')} Mpt/s (${ks[0].impl}); ${load()}`);
+      assert(ks.length === 3 && ks.every((k) => k.mpts > 0), 'the kernel benchmark must run in the worker');
       assert(figures.every((f) => f.turns > 0 && f.densityFps >= 2), 'the density picture must keep updating while tracking');
       assert(Number.isFinite(one.separatrixMs) && Number.isFinite(several.separatrixMs), 'the separatrix must follow an edit');
     },
