@@ -2,13 +2,12 @@
 // separate passes it replaces (RF kick, core/collective/lineDensity.ts kickLinear, drift, depositLinear of the
 // survivors: independent code), the wasm kernel against the js kernel bit for bit, and the tracker's fused turn
 // against its unfused turn. Fictional proton ring (common practice: the kick/drift map of PHYSICS.md §4 with the
-// induced kick of §12 between kick and drift): 1 GeV kinetic, C = 300 m, γ_t = 6, h = 8 at 60 kV.
+// induced kick of §12 between kick and drift): the ring of test/support/kernelRing.ts, h = 8 at 60 kV.
 import { describe, expect, it } from 'vitest';
 import { makeBunch } from '../core/bunch.ts';
 import { depositLinear, kickLinear, type BinGrid } from '../core/collective/lineDensity.ts';
-import { PROTON_MASS_EV } from '../core/constants.ts';
 import {
-  compactLost, createJsKernel, createWasmKernel, depositLost, foldInduced, makeDriftParams, makeKickParams, setInducedStage,
+  compactLost, createJsKernel, createWasmKernel, depositLost, foldInduced, makeKickParams, setInducedStage,
   type Columns, type InducedParams, type TurnKernel,
 } from '../core/kernels/index.ts';
 import { generateBeam } from '../core/beam/index.ts';
@@ -16,12 +15,7 @@ import { machineAtStart } from '../core/machine.ts';
 import { makeRng } from '../core/rng.ts';
 import { parseSetup } from '../core/setup/validate.ts';
 import { Tracker } from '../core/tracker.ts';
-
-const Es = 1e9 + PROTON_MASS_EV;
-const gamma = Es / PROTON_MASS_EV;
-const beta = Math.sqrt(1 - 1 / gamma ** 2);
-const T0 = 300 / (beta * 299_792_458);
-const w1 = (8 * 2 * Math.PI) / T0;
+import { driftOf, w1 } from './support/kernelRing.ts';
 
 function kickOf(rf: number) {
   const k = makeKickParams();
@@ -33,14 +27,6 @@ function kickOf(rf: number) {
   }
   k.dEsync = 4e3;
   return k;
-}
-
-function driftOf(kind: 'linear' | 'exact') {
-  const d = makeDriftParams(kind);
-  d.slip = (T0 * (1 / 36 - 1 / gamma ** 2)) / (beta ** 2 * Es);
-  d.period = T0; d.Es = Es; d.beta2 = beta ** 2; d.gamma2 = gamma ** 2;
-  d.alpha0 = 1 / 36; d.alpha1 = 2e-3; d.alpha2 = -1e-3;
-  return d;
 }
 
 // A bunch of ±0.6 rad at h = 8 around the window, some particles outside the window and outside the limits.

@@ -5,21 +5,15 @@
 import { describe, expect, it } from 'vitest';
 import { PROTON_MASS_EV } from '../core/constants.ts';
 import {
-  chooseKernel, compactLost, createJsKernel, createWasmKernel, makeDriftParams, makeKickParams, sinPoly,
-  SIN_POLY_ABS_ERROR, SIN_POLY_MAX_ARG, SIN_POLY_REL_ERROR, type Columns, type DriftParams, type KickParams, type TurnKernel,
+  chooseKernel, compactLost, createJsKernel, createWasmKernel, makeKickParams, sinPoly,
+  SIN_POLY_ABS_ERROR, SIN_POLY_MAX_ARG, SIN_POLY_REL_ERROR, type Columns, type KickParams, type TurnKernel,
 } from '../core/kernels/index.ts';
 import { SIN_COEFFS } from '../core/kernels/sine.ts';
 import { exactRelative } from '../core/kernels/js.ts';
 import { deltaFromDE, relativeTimeOfFlight } from '../core/kinematics.ts';
 import { makeRng } from '../core/rng.ts';
+import { beta, compaction, driftOf, Es, eta0, gamma, T0, w1 } from './support/kernelRing.ts';
 
-const Es = 1e9 + PROTON_MASS_EV;
-const gamma = Es / PROTON_MASS_EV;
-const beta = Math.sqrt(1 - 1 / gamma ** 2);
-const T0 = 300 / (beta * 299_792_458);
-const w1 = (8 * 2 * Math.PI) / T0;
-const compaction = { alpha0: 1 / 36, alpha1: 2e-3, alpha2: -1e-3 };
-const eta0 = compaction.alpha0 - 1 / gamma ** 2;
 const phiS = Math.asin(5e3 / 60e3); // 5 keV per turn, below transition
 const limits = { dtMax: T0 / 2, dEmax: 0.3 * Es };
 
@@ -33,19 +27,6 @@ function kickOf(rf: 1 | 2 | 3 | 4): KickParams {
     k.phase[j] = phi[j];
   }
   return k;
-}
-
-function driftOf(kind: 'linear' | 'exact'): DriftParams {
-  const d = makeDriftParams(kind);
-  d.slip = (T0 * eta0) / (beta ** 2 * Es);
-  d.period = T0;
-  d.Es = Es;
-  d.beta2 = beta ** 2;
-  d.gamma2 = gamma ** 2;
-  d.alpha0 = compaction.alpha0;
-  d.alpha1 = compaction.alpha1;
-  d.alpha2 = compaction.alpha2;
-  return d;
 }
 
 // Small-amplitude bunch: phase amplitude ≤ 0.2 rad of h = 8, dE matched by the linear map (ratio sqrt(K/|c1|)).
