@@ -31,8 +31,9 @@ let lastCall = 0;
 // drawing has become slow (the cores are busy elsewhere). Otherwise the workers track while the page draws (on 2
 // loaded cores with two workers: more pictures per second than taking turns, and no more long tasks).
 let holdForDraws = false;
-// A plot drawing for longer than this [ms] means the page is short of CPU: then page and workers take turns.
-const SLOW_DRAW_MS = 35;
+// A plot drawing for longer than this [ms] means the page is short of CPU: then page and workers take turns. At the
+// long-task limit itself: below it, one slower plot (a profile at 37 ms under load) no longer halves the pictures.
+const SLOW_DRAW_MS = 50;
 const stats = { turns: 0, trackMs: 0, frames: 0 };
 // Failures in the last RESTART_WINDOW_MS; past RESTART_MAX the runner stops restarting and shows the error.
 let failures: number[] = [];
