@@ -167,10 +167,10 @@ function pump(): void {
   const pool = api, g = gen;
   const turn = s.frame?.turn ?? 0;
   if (inflight > 0) {
-    // One unsplit worker, tracking on two or more cores: queue the next call behind the one out, so the worker
-    // starts it at once instead of waiting for the page to take the frame and ask again (the page is often busy
-    // drawing). The goal travels as an absolute turn, so the queued call cannot overshoot it.
-    if (inflight === 1 && tracking === 1 && s.running && s.frame && !holdForDraws && pool.workers === 1 && turn < goal)
+    // Tracking on two or more cores: queue the next call behind the one out (in the worker, or in the pool when the
+    // beam is split), so tracking goes on at once instead of waiting for the page to take the frame and ask again
+    // (the page is often busy drawing). The goal travels as an absolute turn, so the queued call cannot overshoot it.
+    if (inflight === 1 && tracking === 1 && s.running && s.frame && !holdForDraws && turn < goal)
       track(s, turn);
     return;
   }

@@ -119,11 +119,17 @@ export class TrackPool {
     return f;
   }
 
-  /** Track up to req.turns turns within about req.budgetMs. */
+  /**
+   * Track up to req.turns turns within about req.budgetMs (never past req.until). In split mode calls queue here, one
+   * after the other, so a call the runner sends while the page handles the last frame starts at once when it ends.
+   */
   run(req: RunRequest): Promise<RunFrame> {
     if (!this.split) return this.guard(this.member(0).api.run(req), CALL_DEADLINE_MS, 'tracking');
-    return this.splitRun(req);
+    const p = this.queue.then(() => this.splitRun(req));
+    this.queue = p.catch(() => undefined);
+    return p;
   }
+  private queue: Promise<unknown> = Promise.resolve();
 
   // Chunks of turns in both workers at once, each ending at or before the next logging turn; diagnostics there.
   private async splitRun(req: RunRequest): Promise<RunFrame> {
@@ -134,14 +140,15 @@ export class TrackPool {
     let done = 0;
     let track = 0;
     let pics: PartFrame[] | null = null;
-    while (done < req.turns) {
+    const turns = Math.max(0, Math.min(req.turns, (req.until ?? Infinity) - this.at.turn)); // a queued call may find the goal reached
+    while (done < turns) {
       const turn = this.at.turn;
       const toLog = every - (turn % every);
       const left = req.budgetMs - (performance.now() - t0);
       const fit = Math.max(1, Math.floor(left / this.msPerTurn));
-      const n = Math.min(req.turns - done, toLog, fit);
+      const n = Math.min(turns - done, toLog, fit);
       // The chunk expected to be the last one also bins the picture (saves a round trip per frame).
-      const last = done + n >= req.turns || 2 * n * this.msPerTurn >= left;
+      const last = done + n >= turns || 2 * n * this.msPerTurn >= left;
       const parts = await this.each((api) => api.advance(n, last ? req.view : null), CALL_DEADLINE_MS, 'tracking');
       pics = last ? parts : null;
       const ms = Math.max(...parts.map((p) => p.trackMs));
