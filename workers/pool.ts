@@ -39,6 +39,8 @@ export class TrackPool {
   private last: DiagRow | null = null;
   private msPerTurn = 1;
   private at = { turn: 0, time: 0, Es: 0, pc: 0 };
+  // Split mode: the last tracking call queued (calls run one after the other).
+  private queue: Promise<unknown> = Promise.resolve();
 
   constructor(private readonly make: () => Worker, private readonly maxWorkers: number, private readonly onFailure: (why: string) => void) {}
 
@@ -129,7 +131,6 @@ export class TrackPool {
     this.queue = p.catch(() => undefined);
     return p;
   }
-  private queue: Promise<unknown> = Promise.resolve();
 
   // Chunks of turns in both workers at once, each ending at or before the next logging turn; diagnostics there.
   private async splitRun(req: RunRequest): Promise<RunFrame> {
