@@ -9,7 +9,8 @@ import {
   SIN_POLY_ABS_ERROR, SIN_POLY_MAX_ARG, SIN_POLY_REL_ERROR, type Columns, type KickParams, type TurnKernel,
 } from '../core/kernels/index.ts';
 import { SIN_COEFFS } from '../core/kernels/sine.ts';
-import { exactRelative } from '../core/kernels/js.ts';
+import { driftRelative, exactRelative } from '../core/kernels/js.ts';
+import { driftCoefficients, DriftSeries } from '../core/kernels/series.ts';
 import { deltaFromDE, relativeTimeOfFlight } from '../core/kinematics.ts';
 import { makeRng } from '../core/rng.ts';
 import { beta, compaction, driftOf, Es, eta0, gamma, T0, w1 } from './support/kernelRing.ts';
@@ -122,6 +123,74 @@ describe('exact drift', () => {
       expect(cols.dt[0]).toBeGreaterThan(0); // nearly at rest: arrives very late
       expect(out).toBe(cols.dt.filter((t) => t === Infinity).length); // only an infinite drift is "outside" here
     }
+  });
+});
+
+describe('exact drift series (core/kernels/series.ts)', () => {
+  // PHYSICS.md §3 [Lee ch. 2–3]: T/T0 − 1 = η0δ + η1δ², η1 = α1 − η0/γ² + 3β²/(2γ²); with δ = √(1+u) − 1,
+  // u = ε(2+ε)/β², i.e. δ = ε/β² − ε²/(2β⁴γ²) + O(ε³): c1 = η0/β², c2 = (η1 − η0/(2γ²))/β⁴.
+  it('has the first two coefficients of the textbook expansion (1e-13 relative; c1 near transition absolute)', () => {
+    const c = new Float64Array(21);
+    for (const g of [1.05, 2.066, 5.9, 6.2, 100]) {
+      const b2 = 1 - 1 / g ** 2;
+      driftCoefficients(c, b2, g * g, compaction.alpha0, compaction.alpha1, compaction.alpha2);
+      const e0 = compaction.alpha0 - 1 / g ** 2;
+      const e1 = compaction.alpha1 - e0 / g ** 2 + (3 * b2) / (2 * g ** 2);
+      const c2 = (e1 - e0 / (2 * g ** 2)) / b2 ** 2;
+      expect(Math.abs(c[1] - e0 / b2)).toBeLessThanOrEqual(1e-15 * (compaction.alpha0 + 1 / g ** 2) / b2); // η0 cancels
+      expect(Math.abs(c[2] / c2 - 1), `γ=${g}`).toBeLessThanOrEqual(1e-13);
+    }
+  });
+
+  // Within its reach the series stands in for the closed form: by construction the neglected terms are below
+  // 2^−54 of the first-order scale S·|ε|, S = (|α0| + 1/γ²)/β²; the rest is the rounding of ~30 operations on each
+  // side (a few ulp of the terms): 1e-14 of S·|ε|. Checked against relativeTimeOfFlight (core/kinematics.ts).
+  it('matches relativeTimeOfFlight within 1e-14 of the first-order scale over its reach, γ from 1.01 to 6000', () => {
+    const s = new DriftSeries();
+    for (const g of [1.01, 1.5, 2.066, 6.2, 1e3, 6000]) {
+      const b = Math.sqrt(1 - 1 / g ** 2), E = PROTON_MASS_EV * g;
+      s.update(E, b * b, g * g, compaction.alpha0, compaction.alpha1, compaction.alpha2);
+      const rho = 1 - 1 / g;
+      expect(s.reach / E, `γ=${g}`).toBeGreaterThan(rho / 50); // common practice: a bunch spans well under ρ/50
+      expect(s.reach / E).toBeLessThanOrEqual(rho / 4);
+      const scale = (compaction.alpha0 + 1 / g ** 2) / b ** 2;
+      for (let j = -500; j <= 500; j++) {
+        const dE = (s.reach * j) / 500;
+        const got = driftRelative(dE, s.reach, s.b, 1 / E, 1 / b ** 2, 1 / (b ** 2 * g ** 2), compaction.alpha0, compaction.alpha1, compaction.alpha2);
+        const ref = relativeTimeOfFlight(dE, E, b, g, compaction);
+        expect(Math.abs(got - ref), `γ=${g} dE=${dE}`).toBeLessThanOrEqual(1e-14 * scale * Math.abs(dE / E));
+      }
+      // beyond the reach: the closed form itself, bit for bit
+      for (const dE of [s.reach * 1.0000001, -s.reach * 3, 0.5 * E]) {
+        expect(driftRelative(dE, s.reach, s.b, 1 / E, 1 / b ** 2, 1 / (b ** 2 * g ** 2), compaction.alpha0, compaction.alpha1, compaction.alpha2))
+          .toBe(exactRelative(dE, 1 / E, 1 / b ** 2, 1 / (b ** 2 * g ** 2), compaction.alpha0, compaction.alpha1, compaction.alpha2));
+      }
+    }
+  });
+
+  it('wasm and js give the same bits with particles on both sides of the reach, in one pair and apart', () => {
+    const d = driftOf('exact'), s = new DriftSeries();
+    s.update(d.Es, d.beta2, d.gamma2, d.alpha0, d.alpha1, d.alpha2);
+    const js = createJsKernel(), wasm = createWasmKernel();
+    const n = 1025, a = js.allocColumns(n), b = wasm.allocColumns(n);
+    const rng = makeRng(11);
+    for (let i = 0; i < n; i++) {
+      a.dt[i] = (rng.uniform() - 0.5) * 0.2 / w1;
+      // one particle in five beyond the reach (either sign), the others inside; the pattern mixes pairs' lanes
+      a.dE[i] = (i % 5 === 3 ? 1.5 : 0.9) * s.reach * (rng.uniform() < 0.5 ? -1 : 1) * (0.5 + 0.5 * rng.uniform());
+    }
+    b.dt.set(a.dt);
+    b.dE.set(a.dE);
+    const kick = kickOf(1);
+    kick.dEsync = js.syncGain(kick);
+    const lim = { dtMax: Infinity, dEmax: Infinity };
+    for (let t = 0; t < 5; t++) expect(wasm.kickDrift(b, n, kick, d, lim)).toBe(js.kickDrift(a, n, kick, d, lim));
+    expect(b.dt).toEqual(a.dt);
+    expect(wasm.drift(b, n, d, lim)).toBe(js.drift(a, n, d, lim));
+    expect(b.dt).toEqual(a.dt);
+    let beyond = 0;
+    for (let i = 0; i < n; i++) if (Math.abs(a.dE[i]) > s.reach) beyond++;
+    expect(beyond).toBeGreaterThan(n / 10); // both branches were taken
   });
 });
 

@@ -11,8 +11,11 @@
 //           beyond the physical one (η). max(…, 0) only guards rounding at the domain edge dE → −(E_s − m),
 //           where s → 0 and the drift → +∞ (the particle is then outside any finite dtMax, never NaN).
 //           Overflow (hence NaN) needs |dE/E_s| > ~1e50.
+//           Where |dE| ≤ reach, the Taylor series of this expression (core/kernels/series.ts, degree 10,
+//           truncation below its rounding) replaces it: no square root, no division (driftRelative).
 //   loss:   count the particles with !(|dt| ≤ dtMax and dEmin ≤ dE ≤ dEmax) after the pass.
 // Hot loops take every parameter as an argument (PERF.md: module-scope reads in the loop halve the speed).
+import { DriftSeries } from './series.ts';
 import { sinPoly } from './sine.ts';
 import { checkInduced, makeInducedParams, type InducedParams } from './induced.ts';
 import { checkColumns, checkKick, type DriftParams, type KickParams, type Limits, type TurnKernel } from './types.ts';
@@ -26,6 +29,11 @@ type Sine = (x: number) => number;
 export function createJsKernel(options: { sine?: 'poly' | 'native' } = {}): TurnKernel {
   const sin: Sine = options.sine === 'native' ? Math.sin : sinPoly;
   const scratch = { dt: new Float64Array(1), dE: new Float64Array(1) };
+  const series = new DriftSeries();
+  const seriesOf = (d: DriftParams): DriftSeries => {
+    series.update(d.Es, d.beta2, d.gamma2, d.alpha0, d.alpha1, d.alpha2);
+    return series;
+  };
   const kernel: TurnKernel = {
     impl: 'js',
     allocColumns: (n) => ({ dt: new Float64Array(n), dE: new Float64Array(n) }),
@@ -42,10 +50,11 @@ export function createJsKernel(options: { sine?: 'poly' | 'native' } = {}): Turn
         return driftLinear(cols.dt, cols.dE, n, drift.slip, limits.dtMax, lo, limits.dEmax);
       }
       const invEs = 1 / drift.Es, invB2 = 1 / drift.beta2, invB2G2 = 1 / drift.beta2 / drift.gamma2;
-      if (c === 1) return kd1Exact(cols.dt, cols.dE, n, sin, A[0], w[0], p[0], kick.dEsync, drift.period, invEs, invB2, invB2G2, drift.alpha0, drift.alpha1, drift.alpha2, limits.dtMax, lo, limits.dEmax);
+      const sr = seriesOf(drift);
+      if (c === 1) return kd1Exact(cols.dt, cols.dE, n, sin, A[0], w[0], p[0], kick.dEsync, drift.period, sr.reach, sr.b, invEs, invB2, invB2G2, drift.alpha0, drift.alpha1, drift.alpha2, limits.dtMax, lo, limits.dEmax);
       if (c === 2) kick2(cols.dt, cols.dE, n, sin, A[0], w[0], p[0], A[1], w[1], p[1], kick.dEsync);
       else kick4(cols.dt, cols.dE, n, sin, kick);
-      return driftExact(cols.dt, cols.dE, n, drift.period, invEs, invB2, invB2G2, drift.alpha0, drift.alpha1, drift.alpha2, limits.dtMax, lo, limits.dEmax);
+      return driftExact(cols.dt, cols.dE, n, drift.period, sr.reach, sr.b, invEs, invB2, invB2G2, drift.alpha0, drift.alpha1, drift.alpha2, limits.dtMax, lo, limits.dEmax);
     },
     allocInduced: makeInducedParams,
     freeInduced: () => {},
@@ -53,7 +62,7 @@ export function createJsKernel(options: { sine?: 'poly' | 'native' } = {}): Turn
       checkColumns(cols, n);
       checkKick(kick);
       checkInduced(ind);
-      return kdInduced(cols.dt, cols.dE, n, sin, kick, ind, drift, limits);
+      return kdInduced(cols.dt, cols.dE, n, sin, kick, ind, drift, drift.kind === 'exact' ? seriesOf(drift) : series, limits);
     },
     kick(cols, n, kick) {
       checkColumns(cols, n);
@@ -67,7 +76,8 @@ export function createJsKernel(options: { sine?: 'poly' | 'native' } = {}): Turn
       checkColumns(cols, n);
       const lo = limits.dEmin ?? -limits.dEmax;
       if (drift.kind === 'linear') return driftLinear(cols.dt, cols.dE, n, drift.slip, limits.dtMax, lo, limits.dEmax);
-      return driftExact(cols.dt, cols.dE, n, drift.period, 1 / drift.Es, 1 / drift.beta2, 1 / drift.beta2 / drift.gamma2, drift.alpha0, drift.alpha1, drift.alpha2, limits.dtMax, lo, limits.dEmax);
+      const sr = seriesOf(drift);
+      return driftExact(cols.dt, cols.dE, n, drift.period, sr.reach, sr.b, 1 / drift.Es, 1 / drift.beta2, 1 / drift.beta2 / drift.gamma2, drift.alpha0, drift.alpha1, drift.alpha2, limits.dtMax, lo, limits.dEmax);
     },
     syncGain(kick) {
       // The kick of a particle at dt = 0 with dEsync = 0 is exactly the accumulated Σ A_k·sin φ_k.
@@ -107,6 +117,19 @@ function kick2(dt: Float64Array, dE: Float64Array, n: number, sin: Sine, a0: num
   }
 }
 
+/**
+ * T/T_s − 1 of one particle as the kernels compute it: within its reach the series of series.ts,
+ * dE·(b_1 + b_2·dE + … + b_10·dE⁹) by Estrin's scheme (short dependency chains), else exactRelative.
+ * The wasm kernels do the same operations per lane.
+ */
+export function driftRelative(e: number, reach: number, b: Float64Array, invEs: number, invB2: number, invB2G2: number, a0: number, a1: number, a2: number): number {
+  if (Math.abs(e) <= reach) {
+    const e2 = e * e, e4 = e2 * e2, e8 = e4 * e4;
+    return e * ((((b[0] + e * b[1]) + e2 * (b[2] + e * b[3])) + e4 * ((b[4] + e * b[5]) + e2 * (b[6] + e * b[7]))) + e8 * (b[8] + e * b[9]));
+  }
+  return exactRelative(e, invEs, invB2, invB2G2, a0, a1, a2);
+}
+
 // Three or four systems; unused entries (k ≥ count) act as A = w = φ = 0, which adds exactly +0.
 function kick4(dt: Float64Array, dE: Float64Array, n: number, sin: Sine, kick: KickParams): void {
   const c = kick.count, A = kick.amplitude, w = kick.omega, p = kick.phase;
@@ -131,11 +154,11 @@ function driftLinear(dt: Float64Array, dE: Float64Array, n: number, slip: number
   return out;
 }
 
-function driftExact(dt: Float64Array, dE: Float64Array, n: number, period: number, invEs: number, invB2: number, invB2G2: number, a0: number, a1: number, a2: number, dtMax: number, lo: number, hi: number): number {
+function driftExact(dt: Float64Array, dE: Float64Array, n: number, period: number, reach: number, b: Float64Array, invEs: number, invB2: number, invB2G2: number, a0: number, a1: number, a2: number, dtMax: number, lo: number, hi: number): number {
   let out = 0;
   for (let i = 0; i < n; i++) {
     const e = dE[i];
-    const t = dt[i] + period * exactRelative(e, invEs, invB2, invB2G2, a0, a1, a2);
+    const t = dt[i] + period * driftRelative(e, reach, b, invEs, invB2, invB2G2, a0, a1, a2);
     dt[i] = t;
     if (!(Math.abs(t) <= dtMax && e <= hi && e >= lo)) out++;
   }
@@ -168,12 +191,12 @@ function kd2Linear(dt: Float64Array, dE: Float64Array, n: number, sin: Sine, a0:
   return out;
 }
 
-function kd1Exact(dt: Float64Array, dE: Float64Array, n: number, sin: Sine, a0: number, w0: number, p0: number, sync: number, period: number, invEs: number, invB2: number, invB2G2: number, al0: number, al1: number, al2: number, dtMax: number, lo: number, hi: number): number {
+function kd1Exact(dt: Float64Array, dE: Float64Array, n: number, sin: Sine, a0: number, w0: number, p0: number, sync: number, period: number, reach: number, b: Float64Array, invEs: number, invB2: number, invB2G2: number, al0: number, al1: number, al2: number, dtMax: number, lo: number, hi: number): number {
   let out = 0;
   for (let i = 0; i < n; i++) {
     let t = dt[i];
     const e = dE[i] + (a0 * sin(p0 + w0 * t) - sync);
-    t = t + period * exactRelative(e, invEs, invB2, invB2G2, al0, al1, al2);
+    t = t + period * driftRelative(e, reach, b, invEs, invB2, invB2G2, al0, al1, al2);
     dE[i] = e;
     dt[i] = t;
     if (!(Math.abs(t) <= dtMax && e <= hi && e >= lo)) out++;
@@ -184,11 +207,11 @@ function kd1Exact(dt: Float64Array, dE: Float64Array, n: number, sin: Sine, a0: 
 // Kick, induced-voltage kick, drift, deposit (core/kernels/induced.ts), any count of RF systems, either drift.
 // Operation for operation as the wasm kdi_* kernels: the RF sum in the same order, the clamps as wasm's pmax/pmin,
 // the kick as a + f·d, the deposit in index order.
-function kdInduced(dt: Float64Array, dE: Float64Array, n: number, sin: Sine, kick: KickParams, ind: InducedParams, drift: DriftParams, limits: Limits): number {
+function kdInduced(dt: Float64Array, dE: Float64Array, n: number, sin: Sine, kick: KickParams, ind: InducedParams, drift: DriftParams, series: DriftSeries, limits: Limits): number {
   const c = kick.count, A = kick.amplitude, w = kick.omega, p = kick.phase, sync = kick.dEsync;
   const linear = drift.kind === 'linear', slip = drift.slip, period = drift.period;
   const invEs = 1 / drift.Es, invB2 = 1 / drift.beta2, invB2G2 = 1 / drift.beta2 / drift.gamma2;
-  const al0 = drift.alpha0, al1 = drift.alpha1, al2 = drift.alpha2;
+  const al0 = drift.alpha0, al1 = drift.alpha1, al2 = drift.alpha2, reach = series.reach, b = series.b;
   const dtMax = limits.dtMax, hi = limits.dEmax, lo = limits.dEmin ?? -limits.dEmax;
   const inv = ind.inv, y0 = ind.y0, top = 2 * ind.nb + 1, v = ind.volts, cells = ind.cells;
   let out = 0;
@@ -202,7 +225,7 @@ function kdInduced(dt: Float64Array, dE: Float64Array, n: number, sin: Sine, kic
     let fl = Math.floor(top < m ? top : m);
     let j = fl >= 0 ? fl : 0; // NaN → row 0, as the kernels' integer clamp does with a NaN's (default) bits
     e = e + (v[2 * j] + (y - fl) * v[2 * j + 1]);
-    t = t + (linear ? slip * e : period * exactRelative(e, invEs, invB2, invB2G2, al0, al1, al2));
+    t = t + (linear ? slip * e : period * driftRelative(e, reach, b, invEs, invB2, invB2G2, al0, al1, al2));
     dE[i] = e;
     dt[i] = t;
     if (!(Math.abs(t) <= dtMax && e <= hi && e >= lo)) out++;

@@ -9,6 +9,7 @@
 // Columns not allocated by this kernel are rejected with an error (the kernel cannot reach other memory).
 import { checkInduced, inducedTableLength, type InducedParams } from './induced.ts';
 import { checkColumns, checkKick, MAX_RF, type Columns, type DriftParams, type KickParams, type Limits, type TurnKernel } from './types.ts';
+import { DEGREE, DriftSeries } from './series.ts';
 import { buildKernelModule, HEAP_BASE, kernelName, PARAM, SCRATCH } from './wasmModule.ts';
 
 // The few WebAssembly declarations we need (core compiles with lib ES2022, which has none).
@@ -109,6 +110,7 @@ function kernelOver(memory: WasmMemory, instance: WasmInstance): WasmTurnKernel 
   let buffer = memory.buffer;
   let params = new Float64Array(buffer, 0, HEAP_BASE / 8);
   let iparams = new Int32Array(buffer, 0, HEAP_BASE / 4);
+  const series = new DriftSeries();
   const live = new Map<Columns, Block>();
   const liveInduced = new Map<InducedParams, Block>(); // volts at offset, cells 16·⌈(nb+2)/2⌉ bytes further
   const free: Block[] = []; // sorted by offset, coalesced
@@ -191,6 +193,9 @@ function kernelOver(memory: WasmMemory, instance: WasmInstance): WasmTurnKernel 
       p[PARAM.AL0 / 8] = d.alpha0;
       p[PARAM.AL1 / 8] = d.alpha1;
       p[PARAM.AL2 / 8] = d.alpha2;
+      series.update(d.Es, d.beta2, d.gamma2, d.alpha0, d.alpha1, d.alpha2);
+      p[PARAM.SERIES_REACH / 8] = series.reach;
+      for (let k = 0; k < DEGREE; k++) p[PARAM.SERIES / 8 + k] = series.b[k];
     }
     p[PARAM.DT_MAX / 8] = limits.dtMax;
     p[PARAM.DE_MIN / 8] = limits.dEmin ?? -limits.dEmax;

@@ -28,6 +28,7 @@ export const PARAM = {
   AL0: 144, AL1: 152, AL2: 160, DT_MAX: 168, DE_MIN: 176, DE_MAX: 184,
   IND_INV: 192, IND_Y0: 200, IND_TOP: 208, // induced stage: f64 (TOP = 2nb + 1, the last row)
   IND_TOPI: 224, IND_VOLTS: 228, IND_CELLS: 232, // induced stage: i32 (2nb + 1, byte addresses of the tables)
+  SERIES_REACH: 240, SERIES: 248, // exact drift's series (core/kernels/series.ts): reach [eV], then b_1 … b_DEGREE
   ZERO_I32: 440, // an i32 0 read at entry as the base address of the block
 } as const;
 /** Two scratch particles (dt at SCRATCH, dE at SCRATCH + 16) used by syncGain. */
@@ -96,6 +97,8 @@ const f64x2 = {
 };
 const v128and = bin(simd(0x4e));
 const v128xor = bin(simd(0x51));
+const bitselect = (a: Code, b: Code, mask: Code): Code => [a, b, mask, simd(0x52)]; // a where mask, else b
+const allTrue = (a: Code): Code => [a, simd(0xc3)]; // i64x2.all_true
 const i64x2shl = (a: Code, bits: number): Code => [a, i32c(bits), simd(0xcb)];
 const i64x2sub = bin(simd(0xd1));
 const i64x2lane = (a: Code, lane: number): Code => [a, simd(0x1d), lane];
@@ -193,10 +196,21 @@ function kernelBody(rf: number, drift: DriftKind, induced = false): Code {
   const body = driftBody;
   if (drift === 'linear') body.push(set(T, add(g(T), mul(SLIP, g(E)))));
   if (drift === 'exact') {
+    // The series where |dE| ≤ reach (core/kernels/series.ts): dE·(b_1 + b_2·dE + … + b_10·dE⁹). When a lane
+    // is beyond the reach, the closed form for the pair, and each lane keeps its own (as js.ts per particle):
     // ε, w = ε(2+ε), u = w/β², s = √max(1+u, 0), D = 1+s, B = (2+ε)D + u, Q = α0D² + u(α1D + α2u),
-    // dt += period·((1+ε)·u·Q·B − (w/(β²γ²))·D⁴)/(s·D³·B)   (one division: see js.ts)
+    // T/T_s − 1 = ((1+ε)·u·Q·B − (w/(β²γ²))·D⁴)/(s·D³·B)   (one division: see js.ts)
     const S = K, D = KB, D2 = R, B = R2, Q = ACC;
+    // Estrin's scheme, as driftRelative (js.ts): short dependency chains instead of Horner's ten steps
+    const b = (k: number) => P(PARAM.SERIES + 8 * k), E2 = EPS, E4 = WW, E8 = X;
+    const pair = (k: number) => add(b(k), mul(g(E), b(k + 1)));
     body.push(
+      set(E2, mul(g(E), g(E))), set(E4, mul(g(E2), g(E2))), set(E8, mul(g(E4), g(E4))),
+      set(DELTA, mul(g(E), add(
+        add(add(pair(0), mul(g(E2), pair(2))), mul(g(E4), add(pair(4), mul(g(E2), pair(6))))),
+        mul(g(E8), pair(8))))),
+      set(MASK, f64x2.le(f64x2.abs(g(E)), P(PARAM.SERIES_REACH))),
+      [...allTrue(g(MASK)), 0x45, 0x04, 0x40], // if not both lanes within reach
       set(EPS, mul(g(E), INVES)),
       set(WW, mul(g(EPS), add(TWO, g(EPS)))),
       set(X, mul(g(WW), INVB2)), // u
@@ -205,9 +219,10 @@ function kernelBody(rf: number, drift: DriftKind, induced = false): Code {
       set(D2, mul(g(D), g(D))),
       set(B, add(mul(add(TWO, g(EPS)), g(D)), g(X))),
       set(Q, add(mul(AL0, g(D2)), mul(g(X), add(mul(AL1, g(D)), mul(AL2, g(X)))))),
-      set(DELTA, div( // products paired as a tree: a shorter dependency chain
+      set(DELTA, bitselect(g(DELTA), div( // products paired as a tree: a shorter dependency chain
         sub(mul(mul(add(ONE, g(EPS)), g(X)), mul(g(Q), g(B))), mul(mul(g(WW), INVB2G2), mul(g(D2), g(D2)))),
-        mul(mul(g(S), g(B)), mul(g(D2), g(D))))),
+        mul(mul(g(S), g(B)), mul(g(D2), g(D)))), g(MASK))),
+      [0x0b], // end if
       set(T, add(g(T), mul(PERIOD, g(DELTA)))),
     );
   }
