@@ -130,7 +130,7 @@ describe('exact drift series (core/kernels/series.ts)', () => {
   // PHYSICS.md §3 [Lee ch. 2–3]: T/T0 − 1 = η0δ + η1δ², η1 = α1 − η0/γ² + 3β²/(2γ²); with δ = √(1+u) − 1,
   // u = ε(2+ε)/β², i.e. δ = ε/β² − ε²/(2β⁴γ²) + O(ε³): c1 = η0/β², c2 = (η1 − η0/(2γ²))/β⁴.
   it('has the first two coefficients of the textbook expansion (1e-13 relative; c1 near transition absolute)', () => {
-    const c = new Float64Array(21);
+    const c = new Float64Array(17);
     for (const g of [1.05, 2.066, 5.9, 6.2, 100]) {
       const b2 = 1 - 1 / g ** 2;
       driftCoefficients(c, b2, g * g, compaction.alpha0, compaction.alpha1, compaction.alpha2);

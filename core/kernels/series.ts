@@ -17,7 +17,7 @@
 /** Degree of the polynomial the kernels evaluate (their Estrin scheme is written for 10). */
 export const DEGREE = 10;
 /** Degree to which the series is computed (to bound the neglected terms). */
-const TERMS = 20;
+const TERMS = 16;
 const N = TERMS + 1;
 
 const eps = new Float64Array(N), w = new Float64Array(N), u = new Float64Array(N), s = new Float64Array(N);
@@ -82,8 +82,8 @@ const coeffs = new Float64Array(N);
 /** Σ_{k=DEGREE+1..TERMS} |c_k|·x^k of the last coefficients computed. */
 function tail(x: number): number {
   let sum = 0;
-  for (let k = DEGREE + 1; k < N; k++) sum += Math.abs(coeffs[k]) * x ** k;
-  return sum;
+  for (let k = N - 1; k > DEGREE; k--) sum = (sum + Math.abs(coeffs[k])) * x; // Horner: no powers
+  return sum * x ** DEGREE;
 }
 
 /** The series the kernels evaluate for one drift block (a cache: recomputed only when an input changes). */
@@ -109,7 +109,7 @@ export class DriftSeries {
     let lo = rho * 1e-12, hi = rho / 4;
     if (!(tail(lo) <= 2 ** -54 * scale * lo)) return;
     if (tail(hi) <= 2 ** -54 * scale * hi) lo = hi;
-    else for (let i = 0; i < 60; i++) {
+    else for (let i = 0; i < 32; i++) {
       const mid = Math.sqrt(lo * hi);
       if (tail(mid) <= 2 ** -54 * scale * mid) lo = mid;
       else hi = mid;
