@@ -12,7 +12,7 @@
 //   kd_linear_<k>, kd_exact_<k>   fused kick + drift, returns the number outside the limits
 //   kdi_linear_<k>, kdi_exact_<k> the same with the induced-voltage stage (kick, then deposit after the drift;
 //                       core/kernels/induced.ts)
-// Pairs [2j, 2j+1] run through v128 loads/stores; an odd last particle goes through the same code with
+// Pairs [2j, 2j+1] run through v128 loads/stores (the RF kicks two pairs per iteration); an odd last particle goes through the same code with
 // v128.load64_zero / v128.store64_lane, so the particle at index n (a lost one) is never touched.
 // The loss count: the lane mask of "inside" (all ones) is subtracted from an i64x2 counter, no branch.
 import { INV_PI, PI_HI, PI_LO, ROUND_MAGIC, SIN_COEFFS } from './sine.ts';
@@ -105,6 +105,8 @@ const i64x2lane = (a: Code, lane: number): Code => [a, simd(0x1d), lane];
 const i32 = { add: bin([0x6a]), sub: bin([0x6b]), and: bin([0x71]), shl: bin([0x74]), ltu: bin([0x49]), wrapI64: un([0xa7]) };
 const v128load = (addr: Code): Code => [addr, simd(0x00), 4, 0];
 const v128store = (addr: Code, v: Code): Code => [addr, v, simd(0x0b), 4, 0];
+const v128loadAt = (addr: Code, offset: number): Code => [addr, simd(0x00), 4, uleb(offset)];
+const v128storeAt = (addr: Code, v: Code, offset: number): Code => [addr, v, simd(0x0b), 4, uleb(offset)];
 const load64zero = (addr: Code): Code => [addr, simd(0x5d), 3, 0];
 const shuffle = (a: Code, b: Code, lanes: number[]): Code => [a, b, simd(0x0d), lanes];
 const LO_LANES = [0, 1, 2, 3, 4, 5, 6, 7], HI_LANES = [8, 9, 10, 11, 12, 13, 14, 15];
@@ -126,6 +128,7 @@ function kernelBody(rf: number, drift: DriftKind, induced = false): Code {
   const v = () => next++;
   const T = v(), E = v(), X = v(), K = v(), KB = v(), R = v(), R2 = v(), ACC = v(), MASK = v(), CNT = v();
   const EPS = v(), WW = v(), DELTA = v();
+  const T2 = v(), E2 = v(), X2 = v(), K2 = v(), KB2 = v(), R_2 = v(), R22 = v(), ACC2 = v(), MASK2 = v(); // second pair
   const XI = v(), KI = v(), FI = v(), LA = v(), LB = v(), KV = v(), TOPV = v(), VBV = v(), CBV = v(); // induced stage
   const nV128 = next - firstV;
   const { add, sub, mul, div } = f64x2;
@@ -172,24 +175,32 @@ function kernelBody(rf: number, drift: DriftKind, induced = false): Code {
   const deposit = (tail: boolean): Code[] => [...rowPair(CBV), ...depositLane(0), ...(tail ? [] : depositLane(1))];
 
   // The map for the two particles in T, E (as sinPoly and js.ts, operation for operation).
-  const kickBody: Code[] = [];
-  const body = kickBody;
-  for (let k = 0; k < rf; k++) {
-    body.push(
-      set(X, add(PH(k), mul(W(k), g(T)))), // x = φ_k + w_k·dt
-      // x/π + 1.5·2^52 rounds x/π to the nearest integer k (ties to even) and leaves k in the low mantissa bits
-      set(KB, add(mul(g(X), INVPI), MAGIC)),
-      set(K, sub(g(KB), MAGIC)),
-      set(R, sub(sub(g(X), mul(g(K), PIHI)), mul(g(K), PILO))), // r = x − k·P1 − k·P2
-      set(R, v128xor(g(R), i64x2shl(g(KB), 63))), // r·(−1)^k: the parity bit of k moved to the sign bit
-      set(R2, mul(g(R), g(R))),
-    );
-    let poly = C[C.length - 1];
-    for (let j = C.length - 2; j >= 0; j--) poly = add(C[j], mul(g(R2), poly));
-    const term = mul(A(k), mul(g(R), poly));
-    body.push(set(ACC, k === 0 ? term : add(g(ACC), term)));
-  }
-  if (rf > 0) body.push(set(E, add(g(E), sub(g(ACC), SYNC))));
+  interface KickLocals { T: number; E: number; X: number; K: number; KB: number; R: number; R2: number; ACC: number }
+  const kickOps = (L: KickLocals): Code[] => {
+    const body: Code[] = [];
+    for (let k = 0; k < rf; k++) {
+      body.push(
+        set(L.X, add(PH(k), mul(W(k), g(L.T)))), // x = φ_k + w_k·dt
+        // x/π + 1.5·2^52 rounds x/π to the nearest integer k (ties to even) and leaves k in the low mantissa bits
+        set(L.KB, add(mul(g(L.X), INVPI), MAGIC)),
+        set(L.K, sub(g(L.KB), MAGIC)),
+        set(L.R, sub(sub(g(L.X), mul(g(L.K), PIHI)), mul(g(L.K), PILO))), // r = x − k·P1 − k·P2
+        set(L.R, v128xor(g(L.R), i64x2shl(g(L.KB), 63))), // r·(−1)^k: the parity bit of k moved to the sign bit
+        set(L.R2, mul(g(L.R), g(L.R))),
+      );
+      let poly = C[C.length - 1];
+      for (let j = C.length - 2; j >= 0; j--) poly = add(C[j], mul(g(L.R2), poly));
+      const term = mul(A(k), mul(g(L.R), poly));
+      body.push(set(L.ACC, k === 0 ? term : add(g(L.ACC), term)));
+    }
+    if (rf > 0) body.push(set(L.E, add(g(L.E), sub(g(L.ACC), SYNC))));
+    return body;
+  };
+  const kickBody = kickOps({ T, E, X, K, KB, R, R2, ACC });
+  // the second pair of the two-pair loops (pairs2Loop, kickPass2)
+  const kick2 = kickOps({ T: T2, E: E2, X: X2, K: K2, KB: KB2, R: R_2, R2: R22, ACC: ACC2 });
+  const mask2 = set(MASK2, v128and(v128and(f64x2.le(f64x2.abs(g(T2)), DTMAX), f64x2.le(g(E2), DEMAX)), f64x2.ge(g(E2), DEMIN)));
+  const drift2 = [set(T2, add(g(T2), mul(SLIP, g(E2)))), mask2];
   const limitsMask = v128and(v128and(f64x2.le(f64x2.abs(g(T)), DTMAX), f64x2.le(g(E), DEMAX)), f64x2.ge(g(E), DEMIN));
   const driftBody: Code[] = [];
   {
@@ -243,6 +254,20 @@ function kernelBody(rf: number, drift: DriftKind, induced = false): Code {
     step(PT), step(PE),
     [...i32.ltu(g(PT), g(PEND)), 0x0d, 0, 0x0b, 0x0b], // br_if 0 (loop); end loop; end block
   ];
+  // One RF system, linear drift: two pairs per iteration, their statements alternated (two independent chains
+  // side by side: +13 % here), until fewer than two pairs remain; fusedLoop takes the last pair.
+  const body1 = [...kickBody, ...driftBody], body2 = [...kick2, ...drift2];
+  const pairs2Loop: Code[] = [
+    [0x02, 0x40, 0x03, 0x40], // block; loop: while two pairs remain
+    [...i32.ltu(i32.add(g(PT), i32c(16)), g(PEND)), 0x45, 0x0d, 1],
+    set(T, v128load(g(PT))), set(E, v128load(g(PE))), set(T2, v128loadAt(g(PT), 16)), set(E2, v128loadAt(g(PE), 16)),
+    ...body1.flatMap((op, i) => [op, body2[i]]),
+    v128store(g(PT), g(T)), v128store(g(PE), g(E)), v128storeAt(g(PT), g(T2), 16), v128storeAt(g(PE), g(E2), 16),
+    set(CNT, i64x2sub(i64x2sub(g(CNT), g(MASK)), g(MASK2))),
+    set(PT, i32.add(g(PT), i32c(32))), set(PE, i32.add(g(PE), i32c(32))),
+    [0x0c, 0, 0x0b, 0x0b],
+  ];
+  const twoPairs = rf === 1 && drift === 'linear' && !induced;
   // Chunks of CHUNK particles (in L1): all kicks of the chunk, then (with an induced stage) all its induced kicks,
   // then all drifts, and the deposits (in the drift's loop after a linear drift, in their own after the exact one).
   // The exact drift's sqrt and division, two or more sines, and the induced stage's table look-ups make long
@@ -258,11 +283,27 @@ function kernelBody(rf: number, drift: DriftKind, induced = false): Code {
     step(QT), step(QE),
     [...i32.ltu(g(QT), g(CEND)), 0x0d, 0, 0x0b], // br_if loop; end
   ];
+  // The RF kicks of a chunk, two pairs at a time as above (+5–10 %), then a last pair if one is left.
+  const kickPass2: Code[] = [
+    set(QT, g(PT)), set(QE, g(PE)),
+    [0x02, 0x40, 0x03, 0x40],
+    [...i32.ltu(i32.add(g(QT), i32c(16)), g(CEND)), 0x45, 0x0d, 1],
+    set(T, v128load(g(QT))), set(E, v128load(g(QE))), set(T2, v128loadAt(g(QT), 16)), set(E2, v128loadAt(g(QE), 16)),
+    ...kickBody.flatMap((op, i) => [op, kick2[i]]),
+    v128store(g(QE), g(E)), v128storeAt(g(QE), g(E2), 16),
+    set(QT, i32.add(g(QT), i32c(32))), set(QE, i32.add(g(QE), i32c(32))),
+    [0x0c, 0, 0x0b, 0x0b],
+    [...i32.ltu(g(QT), g(CEND)), 0x04, 0x40],
+    set(T, v128load(g(QT))), set(E, v128load(g(QE))),
+    ...kickBody,
+    v128store(g(QE), g(E)),
+    [0x0b],
+  ];
   const splitLoop: Code[] = [
     [0x02, 0x40, 0x03, 0x40], // block $done; loop $chunk
     [...i32.ltu(g(PT), g(PEND)), 0x45, 0x0d, 1], // br_if $done (!(pt < pend))
     set(CEND, [...i32.add(g(PT), i32c(8 * CHUNK)), ...g(PEND), ...i32.ltu(i32.add(g(PT), i32c(8 * CHUNK)), g(PEND)), 0x1b]), // min
-    ...kickPass(kickBody),
+    ...kickPass2,
     ...(induced ? kickPass(inducedKick) : []),
     set(QT, g(PT)), set(QE, g(PE)),
     [0x03, 0x40], // loop $drift
@@ -286,7 +327,7 @@ function kernelBody(rf: number, drift: DriftKind, induced = false): Code {
     ...setup,
     set(PT, g(DT)), set(PE, g(DE)),
     set(PEND, i32.add(g(DT), i32.shl(i32.and(g(N), i32c(-2)), i32c(3)))), // dt + 8·(n & ~1)
-    ...(split ? splitLoop : fusedLoop),
+    ...(split ? splitLoop : twoPairs ? [...pairs2Loop, ...fusedLoop] : fusedLoop),
     // odd last particle: lane 0 only
     [...i32.and(g(N), i32c(1)), 0x04, 0x40],
     set(T, load64zero(g(PT))), set(E, load64zero(g(PE))),
