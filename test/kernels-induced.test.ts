@@ -92,13 +92,14 @@ describe('induced-voltage stage in the turn kernels', () => {
     }
   });
 
-  it('wasm gives the same bits as js (columns, losses, cells), odd and even counts', () => {
+  it('wasm gives the same bits as js (columns, losses, cells), odd and even counts, NaN and huge dt included', () => {
     const js = createJsKernel(), wasm = createWasmKernel();
     for (const n of [0, 1, 2, 7, 1001]) {
       for (const rf of [1, 2, 3, 4]) {
         for (const kind of ['linear', 'exact'] as const) {
           const a = js.allocColumns(n), b = wasm.allocColumns(n);
           fill(a, n, 10 * n + rf);
+          if (n >= 7) [a.dt[1], a.dt[4], a.dt[6]] = [NaN, 1e300, -1e300]; // far outside and NaN: rows 0 and 2nb + 1
           b.dt.set(a.dt);
           b.dE.set(a.dE);
           const pa = stage(js), pb = stage(wasm);

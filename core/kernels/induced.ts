@@ -8,8 +8,7 @@
 // test of the window per particle. The deposit (after the drift) adds (1, f) to row j; rows 0 and 2nb + 1 collect
 // the particles outside and are never read. foldInduced turns the rows into charge per bin with the weights of
 // linear interpolation between centres (the same weights as the kick, so the kick has no self-force from the grid).
-// The kernels clamp y to [0, 2nb + 1] before ⌊·⌋ and the row to the same range as an integer, so no value of dt
-// reaches outside the tables.
+// The kernels clamp y to [0, 2nb + 1] (NaN to 0) before ⌊·⌋, so no value of dt reaches outside the tables.
 // Per particle of a pass: RF kick, this kick, drift, deposit. The RF kick leaves dt alone, so the deposit of pass
 // n is the line density the kick of pass n+1 needs: one pass over memory per turn.
 
@@ -42,9 +41,9 @@ export function checkInduced(p: InducedParams): void {
   if (!(Number.isFinite(p.inv) && Number.isFinite(p.y0))) throw new Error(`induced stage: grid inv = ${p.inv}, y0 = ${p.y0} must be finite`);
 }
 
-/** ⌊clamp(y, 0, 2nb + 1)⌋ with the kernels' operations (wasm pmax/pmin: NaN passes through). */
+/** ⌊clamp(y, 0, 2nb + 1)⌋ with the kernels' operations (wasm pmax(0, y) then pmin: NaN gives row 0). */
 export function inducedFloor(y: number, nb: number): number {
-  const top = 2 * nb + 1, m = y < 0 ? 0 : y;
+  const top = 2 * nb + 1, m = 0 < y ? y : 0;
   return Math.floor(top < m ? top : m);
 }
 
@@ -87,9 +86,8 @@ export function depositLost(dt: Float64Array, from: number, to: number, p: Induc
   const inv = p.inv, y0 = p.y0, nb = p.nb, c = p.cells;
   for (let i = from; i < to; i++) {
     const y = dt[i] * inv - y0;
-    const fl = inducedFloor(y, nb);
-    const j = fl >= 0 ? fl : 0; // NaN → row 0 (the kernels' integer clamp of a default NaN's bits)
+    const j = inducedFloor(y, nb);
     c[2 * j] -= 1;
-    c[2 * j + 1] -= y - fl;
+    c[2 * j + 1] -= y - j;
   }
 }

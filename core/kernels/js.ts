@@ -205,7 +205,7 @@ function kd1Exact(dt: Float64Array, dE: Float64Array, n: number, sin: Sine, a0: 
 }
 
 // Kick, induced-voltage kick, drift, deposit (core/kernels/induced.ts), any count of RF systems, either drift.
-// Operation for operation as the wasm kdi_* kernels: the RF sum in the same order, the clamps as wasm's pmax/pmin,
+// Operation for operation as the wasm kdi_* kernels: the RF sum in the same order, the clamp as wasm's pmax/pmin,
 // the kick as a + f·d, the deposit in index order.
 function kdInduced(dt: Float64Array, dE: Float64Array, n: number, sin: Sine, kick: KickParams, ind: InducedParams, drift: DriftParams, series: DriftSeries, limits: Limits): number {
   const c = kick.count, A = kick.amplitude, w = kick.omega, p = kick.phase, sync = kick.dEsync;
@@ -221,20 +221,18 @@ function kdInduced(dt: Float64Array, dE: Float64Array, n: number, sin: Sine, kic
     for (let k = 1; k < c; k++) acc = acc + A[k] * sin(p[k] + w[k] * t);
     let e = dE[i] + (acc - sync);
     let y = t * inv - y0;
-    let m = y < 0 ? 0 : y;
-    let fl = Math.floor(top < m ? top : m);
-    let j = fl >= 0 ? fl : 0; // NaN → row 0, as the kernels' integer clamp does with a NaN's (default) bits
-    e = e + (v[2 * j] + (y - fl) * v[2 * j + 1]);
+    let m = 0 < y ? y : 0; // NaN → 0, as wasm's pmax(0, y)
+    let j = Math.floor(top < m ? top : m);
+    e = e + (v[2 * j] + (y - j) * v[2 * j + 1]);
     t = t + (linear ? slip * e : period * driftRelative(e, reach, b, invEs, invB2, invB2G2, al0, al1, al2));
     dE[i] = e;
     dt[i] = t;
     if (!(Math.abs(t) <= dtMax && e <= hi && e >= lo)) out++;
     y = t * inv - y0;
-    m = y < 0 ? 0 : y;
-    fl = Math.floor(top < m ? top : m);
-    j = fl >= 0 ? fl : 0;
+    m = 0 < y ? y : 0;
+    j = Math.floor(top < m ? top : m);
     cells[2 * j] += 1;
-    cells[2 * j + 1] += y - fl;
+    cells[2 * j + 1] += y - j;
   }
   return out;
 }

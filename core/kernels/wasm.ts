@@ -269,7 +269,6 @@ function kernelOver(memory: WasmMemory, instance: WasmInstance): WasmTurnKernel 
       p[PARAM.IND_INV / 8] = ind.inv;
       p[PARAM.IND_Y0 / 8] = ind.y0;
       p[PARAM.IND_TOP / 8] = 2 * ind.nb + 1;
-      ip[PARAM.IND_TOPI / 4] = 2 * ind.nb + 1;
       ip[PARAM.IND_VOLTS / 4] = ind.volts.byteOffset;
       ip[PARAM.IND_CELLS / 4] = ind.cells.byteOffset;
       return (drift.kind === 'linear' ? kdiLinear : kdiExact)[kick.count]!(dt, cols.dE.byteOffset, n);

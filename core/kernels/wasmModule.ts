@@ -27,7 +27,7 @@ export const PARAM = {
   A: 0, W: 32, PHI: 64, SYNC: 96, SLIP: 104, PERIOD: 112, INV_ES: 120, INV_B2: 128, INV_B2G2: 136,
   AL0: 144, AL1: 152, AL2: 160, DT_MAX: 168, DE_MIN: 176, DE_MAX: 184,
   IND_INV: 192, IND_Y0: 200, IND_TOP: 208, // induced stage: f64 (TOP = 2nb + 1, the last row)
-  IND_TOPI: 224, IND_VOLTS: 228, IND_CELLS: 232, // induced stage: i32 (2nb + 1, byte addresses of the tables)
+  IND_VOLTS: 228, IND_CELLS: 232, // induced stage: i32 (byte addresses of the tables)
   SERIES_REACH: 240, SERIES: 248, // exact drift's series (core/kernels/series.ts): reach [eV], then b_1 … b_DEGREE
   ZERO_I32: 440, // an i32 0 read at entry as the base address of the block
 } as const;
@@ -129,7 +129,8 @@ function kernelBody(rf: number, drift: DriftKind, induced = false): Code {
   const T = v(), E = v(), X = v(), K = v(), KB = v(), R = v(), R2 = v(), ACC = v(), MASK = v(), CNT = v();
   const EPS = v(), WW = v(), DELTA = v();
   const T2 = v(), E2 = v(), X2 = v(), K2 = v(), KB2 = v(), R_2 = v(), R22 = v(), ACC2 = v(), MASK2 = v(); // second pair
-  const XI = v(), KI = v(), FI = v(), LA = v(), LB = v(), KV = v(), TOPV = v(), VBV = v(), CBV = v(); // induced stage
+  const XI = v(), KI = v(), FI = v(), LA = v(), LB = v(), KV = v(), VBV = v(), CBV = v(); // induced stage
+  const XI2 = v(), KI2 = v(), FI2 = v(), LA2 = v(), LB2 = v(), KV2 = v(); // its second pair
   const nV128 = next - firstV;
   const { add, sub, mul, div } = f64x2;
   const g = get;
@@ -145,34 +146,37 @@ function kernelBody(rf: number, drift: DriftKind, induced = false): Code {
   const i32splat = (c: Code): Code => [c, simd(0x11)];
   if (induced) setup.push(
     set(VBV, i32splat(i32load(PARAM.IND_VOLTS))), set(CBV, i32splat(i32load(PARAM.IND_CELLS))),
-    set(TOPV, i32splat(i32load(PARAM.IND_TOPI))),
   );
 
   // Induced stage (core/kernels/induced.ts): y = dt·inv − y0 of the pair in T; row j = ⌊clamp(y, 0, 2nb+1)⌋ as an
-  // integer in i32 lanes 0 and 2 (by the sine's rounding trick), clamped again as an integer so that even a NaN's
-  // bits give a row inside the tables, then turned into a byte address (rows of 16 bytes); f = y − ⌊clamp(y)⌋.
-  const rowPair = (base: number): Code[] => [
-    set(XI, sub(mul(g(T), P(PARAM.IND_INV)), P(PARAM.IND_Y0))),
-    set(FI, f64x2.floor(f64x2.pmin(f64x2.pmax(g(XI), ZERO), P(PARAM.IND_TOP)))),
-    set(KI, i32x4.min(i32x4.max(add(g(FI), MAGIC), ZERO), g(TOPV))),
-    set(FI, sub(g(XI), g(FI))),
-    set(KI, i32x4.add(i32x4.shl(g(KI), 4), g(base))),
+  // integer in i32 lanes 0 and 2 (by the sine's rounding trick), turned into a byte address (rows of 16 bytes);
+  // f = y − j. The clamp's operand order sends NaN to 0 (pmax(0, y) = 0 < y ? y : 0): every row is in the tables.
+  interface RowLocals { T: number; E: number; XI: number; KI: number; FI: number; LA: number; LB: number; KV: number }
+  const R1: RowLocals = { T, E, XI, KI, FI, LA, LB, KV };
+  const rowPair = (L: RowLocals, base: number): Code[] => [
+    set(L.XI, sub(mul(g(L.T), P(PARAM.IND_INV)), P(PARAM.IND_Y0))),
+    set(L.FI, f64x2.floor(f64x2.pmin(f64x2.pmax(ZERO, g(L.XI)), P(PARAM.IND_TOP)))),
+    set(L.KI, add(g(L.FI), MAGIC)),
+    set(L.FI, sub(g(L.XI), g(L.FI))),
+    set(L.KI, i32x4.add(i32x4.shl(g(L.KI), 4), g(base))),
   ];
   // dE += a_j + f·d_j: one aligned load per particle, lanes regrouped into (a0, a1) and (d0, d1).
-  const inducedKick: Code[] = [
-    ...rowPair(VBV),
-    set(LA, v128load(i32x4.lane(g(KI), 0))),
-    set(LB, v128load(i32x4.lane(g(KI), 2))),
-    set(KV, shuffle(g(LA), g(LB), [...LO_LANES, ...plus16(LO_LANES)])),
-    set(LB, shuffle(g(LA), g(LB), [...HI_LANES, ...plus16(HI_LANES)])),
-    set(E, add(g(E), add(g(KV), mul(g(FI), g(LB))))),
+  const inducedKickOps = (L: RowLocals): Code[] => [
+    ...rowPair(L, VBV),
+    set(L.LA, v128load(i32x4.lane(g(L.KI), 0))),
+    set(L.LB, v128load(i32x4.lane(g(L.KI), 2))),
+    set(L.KV, shuffle(g(L.LA), g(L.LB), [...LO_LANES, ...plus16(LO_LANES)])),
+    set(L.LB, shuffle(g(L.LA), g(L.LB), [...HI_LANES, ...plus16(HI_LANES)])),
+    set(L.E, add(g(L.E), add(g(L.KV), mul(g(L.FI), g(L.LB))))),
   ];
+  const inducedKick = inducedKickOps(R1);
+  const inducedKick2 = inducedKickOps({ T: T2, E: E2, XI: XI2, KI: KI2, FI: FI2, LA: LA2, LB: LB2, KV: KV2 });
   // cells[j] += (1, f); lane 0 then lane 1 (they may share a row).
   const depositLane = (j: number): Code[] => [
     set(ADDR, i32x4.lane(g(KI), 2 * j)),
     v128store(g(ADDR), add(v128load(g(ADDR)), shuffle(ONE, g(FI), [...LO_LANES, ...plus16(j === 0 ? LO_LANES : HI_LANES)]))),
   ];
-  const deposit = (tail: boolean): Code[] => [...rowPair(CBV), ...depositLane(0), ...(tail ? [] : depositLane(1))];
+  const deposit = (tail: boolean): Code[] => [...rowPair(R1, CBV), ...depositLane(0), ...(tail ? [] : depositLane(1))];
 
   // The map for the two particles in T, E (as sinPoly and js.ts, operation for operation).
   interface KickLocals { T: number; E: number; X: number; K: number; KB: number; R: number; R2: number; ACC: number }
@@ -274,28 +278,19 @@ function kernelBody(rf: number, drift: DriftKind, induced = false): Code {
   // dependency chains; fused into one body, too few pairs fit the out-of-order window (2 RF, linear: +20 %).
   const split = rf > 0 && (drift === 'exact' || induced || rf > 1); // one RF + linear drift: fused is as fast
   const depositInDrift = induced && drift === 'linear'; // short enough together; after the exact drift, apart
-  const kickPass = (body: Code[]): Code[] => [
-    set(QT, g(PT)), set(QE, g(PE)),
-    [0x03, 0x40], // loop
-    set(T, v128load(g(QT))), set(E, v128load(g(QE))),
-    ...body,
-    v128store(g(QE), g(E)),
-    step(QT), step(QE),
-    [...i32.ltu(g(QT), g(CEND)), 0x0d, 0, 0x0b], // br_if loop; end
-  ];
   // The RF kicks of a chunk, two pairs at a time as above (+5–10 %), then a last pair if one is left.
-  const kickPass2: Code[] = [
+  const kickPass2 = (body1: Code[], body2: Code[]): Code[] => [
     set(QT, g(PT)), set(QE, g(PE)),
     [0x02, 0x40, 0x03, 0x40],
     [...i32.ltu(i32.add(g(QT), i32c(16)), g(CEND)), 0x45, 0x0d, 1],
     set(T, v128load(g(QT))), set(E, v128load(g(QE))), set(T2, v128loadAt(g(QT), 16)), set(E2, v128loadAt(g(QE), 16)),
-    ...kickBody.flatMap((op, i) => [op, kick2[i]]),
+    ...body1.flatMap((op, i) => [op, body2[i]]),
     v128store(g(QE), g(E)), v128storeAt(g(QE), g(E2), 16),
     set(QT, i32.add(g(QT), i32c(32))), set(QE, i32.add(g(QE), i32c(32))),
     [0x0c, 0, 0x0b, 0x0b],
     [...i32.ltu(g(QT), g(CEND)), 0x04, 0x40],
     set(T, v128load(g(QT))), set(E, v128load(g(QE))),
-    ...kickBody,
+    ...body1,
     v128store(g(QE), g(E)),
     [0x0b],
   ];
@@ -303,8 +298,8 @@ function kernelBody(rf: number, drift: DriftKind, induced = false): Code {
     [0x02, 0x40, 0x03, 0x40], // block $done; loop $chunk
     [...i32.ltu(g(PT), g(PEND)), 0x45, 0x0d, 1], // br_if $done (!(pt < pend))
     set(CEND, [...i32.add(g(PT), i32c(8 * CHUNK)), ...g(PEND), ...i32.ltu(i32.add(g(PT), i32c(8 * CHUNK)), g(PEND)), 0x1b]), // min
-    ...kickPass2,
-    ...(induced ? kickPass(inducedKick) : []),
+    ...kickPass2(kickBody, kick2),
+    ...(induced ? kickPass2(inducedKick, inducedKick2) : []),
     set(QT, g(PT)), set(QE, g(PE)),
     [0x03, 0x40], // loop $drift
     set(T, v128load(g(QT))), set(E, v128load(g(QE))),
