@@ -204,7 +204,7 @@ function kernelBody(rf: number, drift: DriftKind, induced = false): Code {
   // the second pair of the two-pair loops (pairs2Loop, kickPass2)
   const kick2 = kickOps({ T: T2, E: E2, X: X2, K: K2, KB: KB2, R: R_2, R2: R22, ACC: ACC2 });
   const mask2 = set(MASK2, v128and(v128and(f64x2.le(f64x2.abs(g(T2)), DTMAX), f64x2.le(g(E2), DEMAX)), f64x2.ge(g(E2), DEMIN)));
-  const drift2 = [set(T2, add(g(T2), mul(SLIP, g(E2)))), mask2];
+  const drift2 = drift === 'linear' ? [set(T2, add(g(T2), mul(SLIP, g(E2)))), mask2] : [];
   const limitsMask = v128and(v128and(f64x2.le(f64x2.abs(g(T)), DTMAX), f64x2.le(g(E), DEMAX)), f64x2.ge(g(E), DEMIN));
   const driftBody: Code[] = [];
   {
@@ -258,8 +258,8 @@ function kernelBody(rf: number, drift: DriftKind, induced = false): Code {
     step(PT), step(PE),
     [...i32.ltu(g(PT), g(PEND)), 0x0d, 0, 0x0b, 0x0b], // br_if 0 (loop); end loop; end block
   ];
-  // One RF system, linear drift: two pairs per iteration, their statements alternated (two independent chains
-  // side by side: +13 % here), until fewer than two pairs remain; fusedLoop takes the last pair.
+  // One RF system with the linear drift, or kicks alone: two pairs per iteration, their statements alternated (two
+  // independent chains side by side: +13 % here), until fewer than two pairs remain; fusedLoop takes the last pair.
   const body1 = [...kickBody, ...driftBody], body2 = [...kick2, ...drift2];
   const pairs2Loop: Code[] = [
     [0x02, 0x40, 0x03, 0x40], // block; loop: while two pairs remain
@@ -267,11 +267,11 @@ function kernelBody(rf: number, drift: DriftKind, induced = false): Code {
     set(T, v128load(g(PT))), set(E, v128load(g(PE))), set(T2, v128loadAt(g(PT), 16)), set(E2, v128loadAt(g(PE), 16)),
     ...body1.flatMap((op, i) => [op, body2[i]]),
     v128store(g(PT), g(T)), v128store(g(PE), g(E)), v128storeAt(g(PT), g(T2), 16), v128storeAt(g(PE), g(E2), 16),
-    set(CNT, i64x2sub(i64x2sub(g(CNT), g(MASK)), g(MASK2))),
+    counting ? set(CNT, i64x2sub(i64x2sub(g(CNT), g(MASK)), g(MASK2))) : [],
     set(PT, i32.add(g(PT), i32c(32))), set(PE, i32.add(g(PE), i32c(32))),
     [0x0c, 0, 0x0b, 0x0b],
   ];
-  const twoPairs = rf === 1 && drift === 'linear' && !induced;
+  const twoPairs = rf > 0 && drift !== 'exact' && !induced; // (kicks alone, any count; split covers the rest)
   // Chunks of CHUNK particles (in L1): all kicks of the chunk, then (with an induced stage) all its induced kicks,
   // then all drifts, and the deposits (in the drift's loop after a linear drift, in their own after the exact one).
   // The exact drift's sqrt and division, two or more sines, and the induced stage's table look-ups make long
