@@ -60,6 +60,7 @@ export function startRunner(): void {
     workers: () => api?.workers ?? 0,
     memory: () => api?.memory(),
     kernelSpeeds: () => api?.kernelSpeeds(),
+    trackSpeed: (turns: number, repeats: number) => api?.trackSpeed(turns, repeats),
     // Turns and worker milliseconds summed over the frames received (the browser benchmark reads Mpt/s from them).
     stats: () => ({ ...stats }),
     resetStats: () => { stats.turns = 0; stats.trackMs = 0; stats.frames = 0; },

@@ -61,6 +61,22 @@ export class TrackPool {
     return this.guard(this.member(0).api.kernelSpeeds(), 60_000, 'kernel benchmark');
   }
 
+  /**
+   * Benchmark hook: the current beam tracked `turns` turns by every worker in use at once (no diagnostics, no
+   * picture), `repeats` times; million particle-turns per second over the page's wall time of each call, median.
+   */
+  async trackSpeed(turns: number, repeats: number): Promise<number> {
+    const mpts: number[] = [];
+    for (let r = 0; r < repeats; r++) {
+      const t0 = performance.now();
+      const parts = await this.each((api) => api.advance(turns, null), 60_000, 'tracking benchmark');
+      const alive = parts.reduce((a, p) => a + p.alive, 0);
+      mpts.push((alive * turns) / (performance.now() - t0) / 1e3);
+      if (this.split) this.note(parts[0]);
+    }
+    return mpts.sort((a, b) => a - b)[Math.floor(repeats / 2)];
+  }
+
   /** Test hook: make worker k fail in the given way. */
   debugFail(how: 'throw' | 'close' | 'hang', k = 0): void {
     void this.members[k]?.api.debugFail(how).catch(() => {});
