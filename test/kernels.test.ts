@@ -133,7 +133,7 @@ describe('exact drift series (core/kernels/series.ts)', () => {
     const c = new Float64Array(17);
     for (const g of [1.05, 2.066, 5.9, 6.2, 100]) {
       const b2 = 1 - 1 / g ** 2;
-      driftCoefficients(c, b2, g * g, compaction.alpha0, compaction.alpha1, compaction.alpha2);
+      driftCoefficients(c, { beta2: b2, gamma2: g * g, ...compaction });
       const e0 = compaction.alpha0 - 1 / g ** 2;
       const e1 = compaction.alpha1 - e0 / g ** 2 + (3 * b2) / (2 * g ** 2);
       const c2 = (e1 - e0 / (2 * g ** 2)) / b2 ** 2;
@@ -149,7 +149,7 @@ describe('exact drift series (core/kernels/series.ts)', () => {
     const s = new DriftSeries();
     for (const g of [1.01, 1.5, 2.066, 6.2, 1e3, 6000]) {
       const b = Math.sqrt(1 - 1 / g ** 2), E = PROTON_MASS_EV * g;
-      s.update(E, b * b, g * g, compaction.alpha0, compaction.alpha1, compaction.alpha2);
+      s.update({ Es: E, beta2: b * b, gamma2: g * g, ...compaction });
       const rho = 1 - 1 / g;
       expect(s.reach / E, `γ=${g}`).toBeGreaterThan(rho / 50); // common practice: a bunch spans well under ρ/50
       expect(s.reach / E).toBeLessThanOrEqual(rho / 4);
@@ -170,7 +170,7 @@ describe('exact drift series (core/kernels/series.ts)', () => {
 
   it('wasm and js give the same bits with particles on both sides of the reach, in one pair and apart', () => {
     const d = driftOf('exact'), s = new DriftSeries();
-    s.update(d.Es, d.beta2, d.gamma2, d.alpha0, d.alpha1, d.alpha2);
+    s.update(d);
     const js = createJsKernel(), wasm = createWasmKernel();
     const n = 1025, a = js.allocColumns(n), b = wasm.allocColumns(n);
     const rng = makeRng(11);

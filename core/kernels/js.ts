@@ -31,7 +31,7 @@ export function createJsKernel(options: { sine?: 'poly' | 'native' } = {}): Turn
   const scratch = { dt: new Float64Array(1), dE: new Float64Array(1) };
   const series = new DriftSeries();
   const seriesOf = (d: DriftParams): DriftSeries => {
-    series.update(d.Es, d.beta2, d.gamma2, d.alpha0, d.alpha1, d.alpha2);
+    series.update(d);
     return series;
   };
   const kernel: TurnKernel = {

@@ -14,6 +14,8 @@
 // rounding); beyond TERMS, |ε| ≤ ρ/4 makes the terms fall at least 4× per order.
 // No allocation: scratch arrays are module-scoped (the kernels call update() every turn on a ramp).
 
+import type { DriftParams } from './types.ts';
+
 /** Degree of the polynomial the kernels evaluate (their Estrin scheme is written for 10). */
 export const DEGREE = 10;
 /** Degree to which the series is computed (to bound the neglected terms). */
@@ -35,10 +37,12 @@ function mul(out: Float64Array, x: Float64Array, y: Float64Array): void {
 }
 
 /**
- * Coefficients of the exact drift T/T_s − 1 in ε = dE/E_s: fills c[0..TERMS] (c[0] = 0). Inputs as the drift
- * block: beta2 = β_s², gamma2 = γ_s², alpha0..2 the momentum compaction orders.
+ * Coefficients of the exact drift T/T_s − 1 in ε = dE/E_s: fills c[0..TERMS] (c[0] = 0). From the drift block:
+ * beta2 = β_s², gamma2 = γ_s², alpha0..2 the momentum compaction orders (an object: numbers passed as arguments
+ * to a call the compiler does not inline are boxed, one allocation each).
  */
-export function driftCoefficients(c: Float64Array, beta2: number, gamma2: number, alpha0: number, alpha1: number, alpha2: number): void {
+export function driftCoefficients(c: Float64Array, drift: Pick<DriftParams, 'beta2' | 'gamma2' | 'alpha0' | 'alpha1' | 'alpha2'>): void {
+  const beta2 = drift.beta2, gamma2 = drift.gamma2, alpha0 = drift.alpha0, alpha1 = drift.alpha1, alpha2 = drift.alpha2;
   eps.fill(0); eps[1] = 1;
   w.fill(0); w[1] = 2; w[2] = 1; // ε(2 + ε)
   for (let k = 0; k < N; k++) u[k] = w[k] / beta2;
@@ -94,12 +98,14 @@ export class DriftSeries {
   reach = -1;
   private key = new Float64Array(6).fill(NaN);
 
-  update(Es: number, beta2: number, gamma2: number, alpha0: number, alpha1: number, alpha2: number): void {
+  /** Recompute for a drift block's Es, beta2, gamma2, alpha0..2 (passed as the block: see driftCoefficients). */
+  update(drift: Pick<DriftParams, 'Es' | 'beta2' | 'gamma2' | 'alpha0' | 'alpha1' | 'alpha2'>): void {
+    const Es = drift.Es, beta2 = drift.beta2, gamma2 = drift.gamma2, alpha0 = drift.alpha0, alpha1 = drift.alpha1, alpha2 = drift.alpha2;
     const key = this.key;
     if (key[0] === Es && key[1] === beta2 && key[2] === gamma2 && key[3] === alpha0 && key[4] === alpha1 && key[5] === alpha2) return;
     key[0] = Es; key[1] = beta2; key[2] = gamma2; key[3] = alpha0; key[4] = alpha1; key[5] = alpha2;
     this.reach = -1;
-    driftCoefficients(coeffs, beta2, gamma2, alpha0, alpha1, alpha2);
+    driftCoefficients(coeffs, drift);
     const gamma = Math.sqrt(gamma2);
     const rho = (beta2 * gamma) / (gamma + 1); // 1 − 1/γ without cancellation
     const scale = (Math.abs(alpha0) + 1 / gamma2) / beta2;

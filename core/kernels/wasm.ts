@@ -193,7 +193,7 @@ function kernelOver(memory: WasmMemory, instance: WasmInstance): WasmTurnKernel 
       p[PARAM.AL0 / 8] = d.alpha0;
       p[PARAM.AL1 / 8] = d.alpha1;
       p[PARAM.AL2 / 8] = d.alpha2;
-      series.update(d.Es, d.beta2, d.gamma2, d.alpha0, d.alpha1, d.alpha2);
+      series.update(d);
       p[PARAM.SERIES_REACH / 8] = series.reach;
       for (let k = 0; k < DEGREE; k++) p[PARAM.SERIES / 8 + k] = series.b[k];
     }
