@@ -1,16 +1,14 @@
 // The page's side of the tracking workers: one worker, or two that each track half of the beam when the dynamics
 // are single-particle (no induced voltage, no radiation: those need the whole bunch or one random stream).
-// It offers the one-worker TrackApi to the runner, so splitting is invisible there. Split mode tracks whole
-// chunks of turns in both workers at once (each chunk ends at the next logging turn), then merges:
-// histograms and profiles add (profiles weighted by alive counts), diagnostics come from
-// core/diagnostics/partial.ts (exact moments; 90/95 % areas from the merged action histogram, within 0.1 %).
+// It offers the one-worker TrackApi to the runner, so splitting is invisible there. In split mode the first
+// worker leads: it drives the second through a port of their own (workers/splitLead.ts), and the page makes one
+// call per frame, as with one worker.
 // Supervision: every call must answer within a deadline, and a worker's uncaught error counts as a failure;
 // either way `onFailure` is told once, and the runner replaces the pool.
 import * as Comlink from 'comlink';
-import { diagnosticsFromParts, mergeMoments } from '../core/diagnostics/index.ts';
 import type { KernelSpeed } from '../core/kernels/speed.ts';
 import type { Setup } from '../core/setup/schema.ts';
-import type { DiagRow, PartFrame, ProfileRow, RunFrame, RunRequest, TrackApi, ViewWindow } from './protocol.ts';
+import type { PartFrame, RunFrame, RunRequest, TrackApi, ViewWindow } from './protocol.ts';
 
 /** Beams at least this large are split over two workers (below, one worker is fast enough and simpler). */
 export const SPLIT_MIN = 200_000;
@@ -35,9 +33,7 @@ export class TrackPool {
   private split = false;
   private setup: Setup | null = null;
   private failed = false;
-  // Split mode: the last diagnostics, machine state and time per turn per particle-part (for chunk sizes).
-  private last: DiagRow | null = null;
-  private msPerTurn = 1;
+  // Split mode: the machine state of the last frame (where a beam gathered into one worker resumes).
   private at = { turn: 0, time: 0, Es: 0, pc: 0 };
   // Split mode: the last tracking call queued (calls run one after the other).
   private queue: Promise<unknown> = Promise.resolve();
@@ -129,11 +125,12 @@ export class TrackPool {
 
   private async splitInit(s: Setup, v: ViewWindow, ms: number): Promise<RunFrame> {
     const parts = await Promise.all([0, 1].map((k) => this.guard(this.member(k).api.initPart(s, { index: k, count: 2 }, v), ms, 'generating the beam')));
-    this.last = null;
-    this.note(parts[0]);
-    const d = await this.diagnose(v);
-    const f = await this.splitFrame(parts, v, 0, 0, true, [d.row], [{ turn: 0, dtMin: v.dtMin, dtMax: v.dtMax, profile: d.profile! }]);
+    const { port1, port2 } = new MessageChannel();
+    await this.guard(this.member(1).api.link(Comlink.transfer(port2, [port2]), false), CALL_DEADLINE_MS, 'linking the workers');
+    await this.guard(this.member(0).api.link(Comlink.transfer(port1, [port1]), true), CALL_DEADLINE_MS, 'linking the workers');
+    const f = await this.guard(this.member(0).api.splitFrame(v), ms, 'diagnostics');
     f.matched = parts[0].matched ?? null;
+    this.note(f);
     return f;
   }
 
@@ -143,80 +140,16 @@ export class TrackPool {
    */
   run(req: RunRequest): Promise<RunFrame> {
     if (!this.split) return this.guard(this.member(0).api.run(req), CALL_DEADLINE_MS, 'tracking');
-    const p = this.queue.then(() => this.splitRun(req));
+    const p = this.queue.then(() => this.guard(this.member(0).api.splitRun(req), CALL_DEADLINE_MS, 'tracking')).then((f) => {
+      this.note(f);
+      return f;
+    });
     this.queue = p.catch(() => undefined);
     return p;
   }
 
-  // Chunks of turns in both workers at once, each ending at or before the next logging turn; diagnostics there.
-  private async splitRun(req: RunRequest): Promise<RunFrame> {
-    const every = this.setup!.run.diagnosticsEvery;
-    const t0 = performance.now();
-    const rows: DiagRow[] = [];
-    const profiles: ProfileRow[] = [];
-    let done = 0;
-    let track = 0;
-    let pics: PartFrame[] | null = null;
-    const turns = Math.max(0, Math.min(req.turns, (req.until ?? Infinity) - this.at.turn)); // a queued call may find the goal reached
-    while (done < turns) {
-      const turn = this.at.turn;
-      const toLog = every - (turn % every);
-      const left = req.budgetMs - (performance.now() - t0);
-      const fit = Math.max(1, Math.floor(left / this.msPerTurn));
-      const n = Math.min(turns - done, toLog, fit);
-      // The chunk expected to be the last one also bins the picture (saves a round trip per frame).
-      const last = done + n >= turns || 2 * n * this.msPerTurn >= left;
-      const parts = await this.each((api) => api.advance(n, last ? req.view : null), CALL_DEADLINE_MS, 'tracking');
-      pics = last ? parts : null;
-      const ms = Math.max(...parts.map((p) => p.trackMs));
-      this.msPerTurn = Math.max(1e-3, ms / n);
-      track += ms;
-      done += n;
-      this.note(parts[0]);
-      if (this.at.turn % every === 0) {
-        const { row, profile } = await this.diagnose(req.view);
-        rows.push(row);
-        profiles.push({ turn: row.turn, dtMin: req.view.dtMin, dtMax: req.view.dtMax, profile: profile! });
-      }
-      if (last || performance.now() - t0 > req.budgetMs) break;
-    }
-    if (!pics) pics = await this.each((api) => api.advance(0, req.view), CALL_DEADLINE_MS, 'binning');
-    return this.splitFrame(pics, req.view, track, done, req.fresh === true || req.turns === 0, rows, profiles);
-  }
-
-  private note(p: PartFrame): void {
+  private note(p: PartFrame | RunFrame): void {
     this.at = { turn: p.turn, time: p.time, Es: p.Es, pc: p.pc };
-  }
-
-  // Both passes of the split diagnostics (and the merged line density when a view is given).
-  private async diagnose(v: ViewWindow | null): Promise<{ row: DiagRow; profile: Float64Array | null }> {
-    const first = await this.each((api) => api.moments(v), CALL_DEADLINE_MS, 'diagnostics');
-    const all = mergeMoments(first.map((f) => f.moments));
-    const bins = this.setup!.run.profileBins;
-    const shapes = await this.each((api) => api.shape(all, bins), CALL_DEADLINE_MS, 'diagnostics');
-    const hasBucket = first[0].bucket;
-    const row = diagnosticsFromParts({ turn: this.at.turn, time: this.at.time }, all, shapes, hasBucket);
-    let profile: Float64Array | null = null;
-    if (v) profile = weighted(first.map((f) => f.profile!), first.map((f) => f.moments.n));
-    this.last = row;
-    return { row, profile };
-  }
-
-  // One RunFrame from the parts' pictures, with fresh diagnostics when asked (or when none are known yet).
-  private async splitFrame(parts: PartFrame[], v: ViewWindow, trackMs: number, turnsDone: number, fresh: boolean, rows: DiagRow[], profiles: ProfileRow[] = []): Promise<RunFrame> {
-    this.note(parts[0]);
-    const hist = parts[0].hist!;
-    for (let k = 1; k < parts.length; k++) { const h = parts[k].hist!; for (let i = 0; i < hist.length; i++) hist[i] += h[i]; }
-    const profile = weighted(parts.map((p) => p.profile!), parts.map((p) => p.alive));
-    const lastRow = rows[rows.length - 1];
-    let current: DiagRow;
-    if (lastRow && lastRow.turn === this.at.turn) current = lastRow;
-    else if (fresh || !this.last) current = (await this.diagnose(null)).row;
-    else current = this.last;
-    return {
-      turn: this.at.turn, time: this.at.time, Es: this.at.Es, pc: this.at.pc, current, rows, profiles, view: v, hist, profile,
-      points: null, events: parts[0].events, trackMs, turnsDone,
-    };
   }
 
   /** New machine parameters from the next turn on; the beam is kept (gathered into one worker if it must be). */
@@ -258,13 +191,4 @@ export class TrackPool {
     for (const p of ps) { dt.set(p.dt.subarray(p.alive), o); dE.set(p.dE.subarray(p.alive), o); o += p.dt.length - p.alive; }
     return { dt, dE, alive: ps.reduce((a, p) => a + p.alive, 0) };
   }
-}
-
-// Σ p_k·n_k / Σ n_k: line densities normalised per part, renormalised to the union.
-function weighted(ps: Float64Array[], ns: number[]): Float64Array {
-  const out = new Float64Array(ps[0].length);
-  const N = ns.reduce((a, n) => a + n, 0);
-  if (N === 0) return out;
-  for (let k = 0; k < ps.length; k++) { const p = ps[k], w = ns[k] / N; for (let i = 0; i < out.length; i++) out[i] += p[i] * w; }
-  return out;
 }

@@ -106,6 +106,15 @@ export interface TrackApi {
   moments(view: ViewWindow | null): Promise<{ moments: PartialMoments; profile: Float64Array | null; bucket: boolean }>;
   /** Split mode, pass 2 with the merged moments of all parts. */
   shape(all: PartialMoments, bins: number): Promise<PartialShape>;
+  /**
+   * Split mode: join the other worker through `port`. The lead (first part) drives both parts through it; the
+   * other worker answers its advance, moments and shape calls there.
+   */
+  link(port: MessagePort, lead: boolean): Promise<void>;
+  /** Split mode, lead only: the current frame of both parts with fresh diagnostics (after generating them). */
+  splitFrame(view: ViewWindow): Promise<RunFrame>;
+  /** Split mode, lead only: track both parts as run() does one beam (workers/splitLead.ts). */
+  splitRun(req: RunRequest): Promise<RunFrame>;
   /** Take over a whole beam at a given turn (leaving split mode), with the setup to track it with. */
   adopt(setup: Setup, dt: Float64Array, dE: Float64Array, alive: number, at: { turn: number; time: number; pc: number }): Promise<void>;
   /** Memory this worker holds: the particle columns' buffer (the kernel's memory) and the JS heap where the browser tells it. */

@@ -11,11 +11,14 @@ import type { Setup } from '../core/setup/schema.ts';
 import { kernelSpeeds } from '../core/kernels/speed.ts';
 import { Tracker } from '../core/tracker.ts';
 import { MAX_EVENTS, type DiagRow, type PartFrame, type ProfileRow, type RunFrame, type RunRequest, type TrackApi, type ViewWindow } from './protocol.ts';
+import { SplitLead } from './splitLead.ts';
 
 let setup: Setup | null = null;
 let tracker: Tracker | null = null;
 // The last diagnostics computed: stands in for the current state between logging turns (each costs ~tens of ms at 1e6).
 let lastDiag: DiagRow | null = null;
+// Split mode, in the first worker: drives both parts (workers/splitLead.ts).
+let lead: SplitLead | null = null;
 // Milliseconds the last picture took to bin (histogram, and profile when asked): run() keeps room for it.
 let binMs = 0;
 const NO_PROFILE = new Float64Array(0);
@@ -74,10 +77,22 @@ function start(s: Setup, v: ViewWindow, pointsMax: number): RunFrame {
   const { bunch, matched } = generateBeam(s, machineAtStart(s));
   setup = s;
   tracker = new Tracker(s, bunch);
+  lead = null;
   const first = diagnose(tracker, s);
   const f = frameOf([first], [profileRow(tracker, s, v)], v, pointsMax, 0, 0, true);
   f.matched = matched;
   return f;
+}
+
+function needLead(): SplitLead {
+  if (!lead) throw new Error('split mode: this worker does not lead (call link first)');
+  return lead;
+}
+
+// A merged split-mode frame to the page, its typed arrays transferred.
+function transferFrame(f: RunFrame): RunFrame {
+  const buffers = [f.hist, f.profile, ...f.profiles.map((p) => p.profile)].filter((a) => a.length > 0).map((a) => a.buffer as ArrayBuffer);
+  return Comlink.transfer(f, [...new Set(buffers)]);
 }
 
 // A split-mode frame: the machine state, and this part's picture when a view is given.
@@ -143,6 +158,7 @@ const api: TrackApi = {
     // Generation leaves every particle alive, so a slice of [0, N) is a slice of the alive block.
     setup = s;
     tracker = new Tracker(s, bunchFrom(bunch.dt.slice(lo, hi), bunch.dE.slice(lo, hi)));
+    lead = null; // the pool links the parts again
     lastDiag = null;
     const f = partFrame(v, 0, 0);
     f.matched = matched;
@@ -165,6 +181,20 @@ const api: TrackApi = {
     const sh = partialShape(need().t.bunch, all, bins);
     return Comlink.transfer(sh, [sh.action.buffer as ArrayBuffer, sh.profile.buffer as ArrayBuffer]);
   },
+  async link(port, isLead) {
+    if (!isLead) {
+      Comlink.expose(api, port);
+      return;
+    }
+    const other = Comlink.wrap<TrackApi>(port);
+    lead = new SplitLead([api, other], () => need().s, () => partFrame(null, 0, 0));
+  },
+  async splitFrame(v) {
+    return transferFrame(await needLead().frame(v));
+  },
+  async splitRun(req) {
+    return transferFrame(await needLead().run(req));
+  },
   async adopt(s, dt, dE, alive, at) {
     const t = new Tracker(s, bunchFrom(dt, dE, alive));
     // Resume the machine where the parts were: updateSetup continues from the state's turn, time and momentum.
@@ -173,6 +203,7 @@ const api: TrackApi = {
     t.updateSetup(s);
     setup = s;
     tracker = t;
+    lead = null;
     lastDiag = null;
   },
   async memory() {
