@@ -74,6 +74,7 @@ async function trackFigures(ctx, url, workers, ms) {
   const r = await page.evaluate(() => ({
     long: window.__long, stats: window.__phasewellDebug.stats(),
     draws: performance.getEntriesByType('measure').filter((e) => e.name === 'draw phase').length,
+    drawMs: performance.getEntriesByType('measure').filter((e) => e.name.startsWith('draw ')).reduce((a, e) => a + e.duration, 0),
   }));
   const mem1 = await page.evaluate(() => window.__phasewellDebug.memory());
   const turns = Number(await page.textContent('#turn')) - turn0;
@@ -83,6 +84,7 @@ async function trackFigures(ctx, url, workers, ms) {
     workerMpts: (r.stats.turns * 1e6) / (r.stats.trackMs * 1e3),
     appMpts: (turns * 1e6) / wall / 1e6,
     densityFps: r.draws / wall,
+    drawShare: r.drawMs / 1000 / wall, // of one core: the page's plot calls (layout, paint and compositing come on top)
     frames: r.stats.frames / wall,
     longTasks: r.long.length, longest: Math.max(0, ...r.long),
     memoryMB: mem1.map((m) => (m.bufferBytes / 2 ** 20).toFixed(1) + (m.heapBytes ? `+${(m.heapBytes / 2 ** 20).toFixed(1)} heap` : '')).join(', '),
@@ -210,7 +212,7 @@ export const perfTests = [
         const f = await trackFigures(ctx, url, w, 8000);
         figures.push(f);
         console.log(`     1e6 particles, ${f.workers} worker(s): ${f.turns} turns in ${f.wall.toFixed(1)} s; ${f.workerMpts.toFixed(0)} Mpt/s in the workers, ${f.appMpts.toFixed(0)} Mpt/s in the app; ` +
-          `${f.densityFps.toFixed(1)} density pictures/s, ${f.frames.toFixed(1)} frames/s received; long tasks ${f.longTasks}, longest ${f.longest.toFixed(0)} ms; ` +
+          `${f.densityFps.toFixed(1)} density pictures/s (plot calls ${(100 * f.drawShare).toFixed(0)} % of a core), ${f.frames.toFixed(1)} frames/s received; long tasks ${f.longTasks}, longest ${f.longest.toFixed(0)} ms; ` +
           `worker memory ${f.memoryMB} MB (heap growth ${f.memoryGrowthMB.toFixed(1)} MB); ${load()}`);
       }
       console.log(`     two workers / one: ${(figures[1].workerMpts / figures[0].workerMpts).toFixed(2)}x in the workers, ${(figures[1].appMpts / figures[0].appMpts).toFixed(2)}x in the app`);
