@@ -5,10 +5,10 @@
 // Each figure is the median of RUNS timed runs after one warm-up run. Not a test: nothing here passes or fails.
 import { performance } from 'node:perf_hooks';
 import { Worker } from 'node:worker_threads';
-import { createJsKernel, createWasmKernel, type TurnKernel } from '../core/kernels/index.ts';
+import { createJsKernel, createWasmKernel, makeDriftParams, makeKickParams, type TurnKernel } from '../core/kernels/index.ts';
 import { wasmApi } from '../core/kernels/wasm.ts';
 import { kernelSpeed } from '../core/kernels/speed.ts';
-import { buildKernelModule, HEAP_BASE, kernelName, PARAM } from '../core/kernels/wasmModule.ts';
+import { buildKernelModule, HEAP_BASE, kernelName } from '../core/kernels/wasmModule.ts';
 
 const RUNS = 7;
 const PARTICLES = 1_000_000;
@@ -78,18 +78,17 @@ async function threadCases(): Promise<KernelCase[]> {
   const kernels: KernelCase[] = [];
   const half = PARTICLES / 2, sigT = 0.05 / (8 * w0);
   for (const [rf, drift] of [[1, 'linear'], [2, 'linear'], [1, 'exact'], [2, 'exact']] as const) {
-    const p = new Float64Array(HEAP_BASE / 8);
+    // The parameter block as the kernel writes it (kick, drift, series, limits): one call on no particles.
+    const k = createWasmKernel();
+    const kick = makeKickParams();
+    kick.count = rf;
     const A = [60e3, 30e3], W = [8 * w0, 16 * w0], PHI = [0.1, Math.PI + 0.2];
-    for (let j = 0; j < rf; j++) {
-      p[PARAM.A / 8 + j] = A[j];
-      p[PARAM.W / 8 + j] = W[j];
-      p[PARAM.PHI / 8 + j] = PHI[j];
-    }
-    let sync = 0; // Σ A sin φ with Math.sin: the bench only times, it does not need the exact fixed point
-    for (let j = 0; j < rf; j++) sync += A[j] * Math.sin(PHI[j]);
-    const slip = (T0 * eta0) / (beta2 * Es);
-    Object.entries({ SYNC: sync, SLIP: slip, PERIOD: T0, INV_ES: 1 / Es, INV_B2: 1 / beta2, INV_B2G2: 1 / beta2 / gamma2, AL0: alpha0, AL1: 0, AL2: 0, DT_MAX: T0 / 2, DE_MIN: -0.5 * Es, DE_MAX: 0.5 * Es })
-      .forEach(([k, v]) => (p[PARAM[k as keyof typeof PARAM] / 8] = v));
+    for (let j = 0; j < rf; j++) [kick.amplitude[j], kick.omega[j], kick.phase[j]] = [A[j], W[j], PHI[j]];
+    kick.dEsync = k.syncGain(kick);
+    const d = makeDriftParams(drift);
+    Object.assign(d, { slip: (T0 * eta0) / (beta2 * Es), period: T0, Es, beta2, gamma2, alpha0 });
+    k.kickDrift(k.allocColumns(0), 0, kick, d, { dtMax: T0 / 2, dEmax: 0.5 * Es });
+    const p = new Float64Array(k.memory.buffer.slice(0, HEAP_BASE));
     const fn = kernelName(rf, drift);
     const workers = [0, 1].map(() => new Worker(WORKER_SOURCE, { eval: true, workerData: { module, n: half, params: p, fn, sigT } }));
     const next = (w: Worker) => new Promise<unknown>((resolve) => w.once('message', resolve));

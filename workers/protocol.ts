@@ -1,4 +1,5 @@
 // Messages between the page and the tracking worker. Units as in core: dt in s, dE in eV, time in s.
+import type { Endpoint } from 'comlink';
 import type { KernelSpeed } from '../core/kernels/speed.ts';
 import type { Setup } from '../core/setup/schema.ts';
 import type { PartialMoments, PartialShape, TurnDiagnostics } from '../core/diagnostics/index.ts';
@@ -110,7 +111,7 @@ export interface TrackApi {
    * Split mode: join the other worker through `port`. The lead (first part) drives both parts through it; the
    * other worker answers its advance, moments and shape calls there.
    */
-  link(port: MessagePort, lead: boolean): Promise<void>;
+  link(port: Endpoint, lead: boolean): Promise<void>;
   /** Split mode, lead only: the current frame of both parts with fresh diagnostics (after generating them). */
   splitFrame(view: ViewWindow): Promise<RunFrame>;
   /** Split mode, lead only: track both parts as run() does one beam (workers/splitLead.ts). */
