@@ -6,6 +6,7 @@
 // π·J_q·sqrt(det Σ) = π·J_q·ε_rms. For a 2-D Gaussian J is χ² with 2 degrees of freedom, J_q = −2 ln(1 − q),
 // giving the area −2 ln(1 − q)·π·σt·σE of PHYSICS.md §9.
 import type { Bunch } from '../bunch.ts';
+import { fwhmCounts } from './partial.ts';
 
 let scratch = new Float64Array(0); // reused J buffer, grown on demand (no allocation per call once sized)
 
@@ -14,43 +15,85 @@ export interface SecondMoments {
   meanDt: number; meanDE: number; varDt: number; varDE: number; cov: number;
 }
 
-/** Areas [eV·s] of the rms-shaped ellipses holding fractions qs of the alive particles (NaN if degenerate). */
-export function fractionEmittances(b: Bunch, mom: SecondMoments, qs: readonly number[]): number[] {
+/** dt bins to count in the same pass (the FWHM profile of partial.ts fwhmCounts, same bins). */
+export interface ProfileCounts {
+  tMin: number;
+  tMax: number;
+  out: Float64Array;
+}
+
+/**
+ * Areas [eV·s] of the rms-shaped ellipses holding fractions qs of the alive particles (NaN if degenerate). With
+ * `profile`, the same pass over the particles also counts fwhmCounts(b, tMin, tMax, out).
+ */
+export function fractionEmittances(b: Bunch, mom: SecondMoments, qs: readonly number[], profile?: ProfileCounts): number[] {
   const n = b.n;
   const det = mom.varDt * mom.varDE - mom.cov * mom.cov;
-  if (n === 0 || !(det > 0)) return qs.map(() => NaN);
+  if (n === 0 || !(det > 0)) {
+    if (profile) fwhmCounts(b, profile.tMin, profile.tMax, profile.out);
+    return qs.map(() => NaN);
+  }
   if (scratch.length < n) scratch = new Float64Array(n);
   const J = scratch;
   const a = mom.varDE / det, c = -mom.cov / det, d = mom.varDt / det;
   const mt = mom.meanDt, me = mom.meanDE, dt = b.dt, dE = b.dE;
-  let jMax = 0;
+  const ranks = qs.map((q) => Math.min(n - 1, Math.max(0, Math.ceil(q * n) - 1)));
+  // Counting bins on [0, cap), then one overflow bin. The mean of J over the particles is exactly 2 (the trace of
+  // Σ⁻¹Σ), so fewer than a fraction 2/x of them have J ≥ x (Markov): the rank of q lies below 2/(1 − q), and
+  // cap = 2.5/(1 − q) keeps it in the counting bins (any other bin would still give the exact value).
+  const qMax = Math.max(...qs);
+  const cap = qMax < 0.999 ? 2.5 / (1 - qMax) : 2500;
+  const scale = BINS / cap;
+  if (counts.length !== BINS + 1) counts = new Uint32Array(BINS + 1);
+  const cnt = counts;
+  cnt.fill(0);
+  const out = profile?.out;
+  if (out) {
+    out.fill(0);
+    const bins = out.length;
+    if (bins >= 3 && profile!.tMax > profile!.tMin) {
+      const w = (profile!.tMax - profile!.tMin) / (bins - 2);
+      invariantsAndProfile(dt, dE, n, mt, me, a, c, d, J, cnt, scale, out, profile!.tMin - w, 1 / w);
+    } else invariants(dt, dE, n, mt, me, a, c, d, J, cnt, scale);
+  } else invariants(dt, dE, n, mt, me, a, c, d, J, cnt, scale);
+  const eps = Math.sqrt(det);
+  return rankValues(J, n, scale, ranks).map((j) => Math.PI * j * eps);
+}
+
+// J = a·x² + 2c·x·y + d·y² of every particle into J[], counted in cnt (bin ⌊J·scale⌋, BINS beyond; J ≤ 0 and NaN
+// in bin 0). Hot loops take everything as arguments (PERF.md).
+function invariants(dt: Float64Array, dE: Float64Array, n: number, mt: number, me: number, a: number, c: number, d: number, J: Float64Array, cnt: Uint32Array, scale: number): void {
   for (let i = 0; i < n; i++) {
     const x = dt[i] - mt, y = dE[i] - me;
     const v = a * x * x + 2 * c * x * y + d * y * y;
     J[i] = v;
-    if (v > jMax) jMax = v;
+    cnt[v > 0 ? Math.min(BINS, Math.floor(v * scale)) : 0]++;
   }
-  const eps = Math.sqrt(det);
-  const ranks = qs.map((q) => Math.min(n - 1, Math.max(0, Math.ceil(q * n) - 1)));
-  return rankValues(J, n, jMax, ranks).map((j) => Math.PI * j * eps);
 }
 
-// Bins of the counting pass of rankValues: the bin holding a rank then has ~n/BINS values or fewer.
+// The same, also counting dt in fwhmCounts' bins (first bin edge lo, 1/width inv).
+function invariantsAndProfile(dt: Float64Array, dE: Float64Array, n: number, mt: number, me: number, a: number, c: number, d: number, J: Float64Array, cnt: Uint32Array, scale: number, out: Float64Array, lo: number, inv: number): void {
+  const last = out.length - 2; // tMax lands in the last full bin
+  for (let i = 0; i < n; i++) {
+    const t = dt[i], x = t - mt, y = dE[i] - me;
+    const v = a * x * x + 2 * c * x * y + d * y * y;
+    J[i] = v;
+    cnt[v > 0 ? Math.min(BINS, Math.floor(v * scale)) : 0]++;
+    out[Math.min(last, Math.floor((t - lo) * inv))] += 1;
+  }
+}
+
+// Counting bins of the selection (plus one overflow bin): the bin holding a rank has ~n/BINS values or fewer.
 const BINS = 4096;
-let counts = new Uint32Array(BINS);
+let counts = new Uint32Array(BINS + 1);
 let gathered = new Float64Array(0);
 
-// Exact values at ranks (0-based) of J[0..n) (all in [0, jMax]) without reordering J: one counting pass finds the
-// bin of each rank, one pass gathers those bins' values (the same bin formula, so membership is exact), and the
-// selection runs among them only.
-function rankValues(J: Float64Array, n: number, jMax: number, ranks: number[]): number[] {
-  if (!(jMax > 0) || !Number.isFinite(jMax)) return ranks.map((k) => selectKth(J, n, k));
-  const scale = BINS / jMax;
-  if (counts.length !== BINS) counts = new Uint32Array(BINS);
-  counts.fill(0);
-  for (let i = 0; i < n; i++) counts[Math.min(BINS - 1, Math.floor(J[i] * scale))]++;
+// Exact values at ranks (0-based) of J[0..n), counted in `counts` with bin ⌊J·scale⌋ (BINS for the rest), without
+// reordering J: one pass gathers the rank bins' values (the same bin formula, so membership is exact), and the
+// selection runs among them only. J ≤ 0 (rounding near the centroid) and NaN count in bin 0.
+function rankValues(J: Float64Array, n: number, scale: number, ranks: number[]): number[] {
   // Bin of each rank, the count below it, and where its values go in the gather buffer.
-  const bins = ranks.map((k) => { let b = 0, below = 0; while (below + counts[b] <= k) below += counts[b++]; return { b, below }; });
+  const bins = ranks.map((k) => { let b = 0, below = 0; while (b < BINS && below + counts[b] <= k) below += counts[b++]; return { b, below }; });
   const distinct = [...new Set(bins.map((x) => x.b))];
   const start = new Map<number, number>();
   let size = 0;
@@ -59,12 +102,13 @@ function rankValues(J: Float64Array, n: number, jMax: number, ranks: number[]): 
   const b0 = distinct[0], b1 = distinct.length > 1 ? distinct[1] : -1;
   let o0 = start.get(b0)!, o1 = b1 >= 0 ? start.get(b1)! : 0;
   const rest = distinct.slice(2), ro = rest.map((b) => start.get(b)!);
+  const g = gathered;
   for (let i = 0; i < n; i++) {
     const v = J[i];
-    const bi = Math.min(BINS - 1, Math.floor(v * scale));
-    if (bi === b0) gathered[o0++] = v;
-    else if (bi === b1) gathered[o1++] = v;
-    else if (rest.length) { const r = rest.indexOf(bi); if (r >= 0) gathered[ro[r]++] = v; }
+    const bi = v > 0 ? Math.min(BINS, Math.floor(v * scale)) : 0; // binOf, written out for the hot loop
+    if (bi === b0) g[o0++] = v;
+    else if (bi === b1) g[o1++] = v;
+    else if (rest.length) { const r = rest.indexOf(bi); if (r >= 0) g[ro[r]++] = v; }
   }
   // Select within each bin's slice (quickselect reorders only that slice; another rank in it is still exact).
   return bins.map(({ b, below }, i) => selectKth(gathered.subarray(start.get(b)!, start.get(b)! + counts[b]), counts[b], ranks[i] - below));

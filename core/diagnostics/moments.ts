@@ -6,7 +6,7 @@ import type { BucketInfo } from '../bucket.ts';
 import type { Bunch } from '../bunch.ts';
 import type { MachineState } from '../machine.ts';
 import { fractionEmittances } from './ellipse.ts';
-import { fwhmCounts, partialMoments } from './partial.ts';
+import { partialMoments } from './partial.ts';
 import { fwhm } from './profile.ts';
 
 /** One turn's reductions of the bunch (alive particles unless stated). */
@@ -35,7 +35,7 @@ export interface TurnDiagnostics {
   insideFraction: number;
 }
 
-let profile = new Float64Array(0); // reused profile buffer
+let profile = new Float64Array(0); // reused FWHM profile (fwhmCounts' bins)
 
 /** All per-turn diagnostics; `bins` sets the line-density resolution of the FWHM; bucket null if none. */
 export function computeDiagnostics(b: Bunch, m: MachineState, bucket: BucketInfo | null, bins: number): TurnDiagnostics {
@@ -44,23 +44,17 @@ export function computeDiagnostics(b: Bunch, m: MachineState, bucket: BucketInfo
   const meanDt = n ? p.meanDt : NaN, meanDE = n ? p.meanDE : NaN;
   let vt = p.m2t, ve = p.m2e, c = p.m2c;
   vt /= n; ve /= n; c /= n;
-  const [emittance90, emittance95] = fractionEmittances(b, { meanDt, meanDE, varDt: vt, varDE: ve, cov: c }, [0.9, 0.95]);
+  // the FWHM profile is counted in the selection's pass over the particles
+  const bins1 = b.n === 0 || !(bins >= 3) ? 0 : bins;
+  if (profile.length !== bins1) profile = new Float64Array(bins1);
+  const [emittance90, emittance95] = fractionEmittances(b, { meanDt, meanDE, varDt: vt, varDE: ve, cov: c }, [0.9, 0.95], { tMin, tMax, out: profile });
   return {
     turn: m.turn, time: m.time, alive: n, lost: b.total - n,
     meanDt, meanDE, rmsDt: Math.sqrt(vt), rmsDE: Math.sqrt(ve),
     emittanceRms: Math.sqrt(Math.max(0, vt * ve - c * c)),
     emittance90, emittance95,
     length4Sigma: 4 * Math.sqrt(vt),
-    lengthFwhm: profileFwhm(b, tMin, tMax, bins),
+    lengthFwhm: bins1 === 0 ? NaN : tMax > tMin ? fwhm(profile, (tMax - tMin) / (bins - 2)) : 0,
     insideFraction: bucket === null ? NaN : p.inside / b.total,
   };
-}
-
-// FWHM of the line density on `bins` bins spanning the particles plus one empty bin on each side (fwhmCounts).
-function profileFwhm(b: Bunch, tMin: number, tMax: number, bins: number): number {
-  if (b.n === 0 || !(bins >= 3)) return NaN;
-  if (!(tMax > tMin)) return 0;
-  if (profile.length !== bins) profile = new Float64Array(bins);
-  fwhmCounts(b, tMin, tMax, profile);
-  return fwhm(profile, (tMax - tMin) / (bins - 2));
 }

@@ -1,8 +1,9 @@
 // Diagnostics of a bunch split over several trackers (one per worker): each part reduces its own particles, the
 // parts merge exactly where sums allow, and the result has the TurnDiagnostics shape of moments.ts.
 // Units: dt in s, dE in eV, areas in eV·s. Two passes over each part:
-//  1. partialMoments: count, centroid, centred second moments (merged with the pairwise formula of Chan, Golub
-//     and LeVeque, "Algorithms for computing the sample variance", 1983: exact up to rounding), dt range, inside count.
+//  1. partialMoments: count, centroid, centred second moments (one pass of sums shifted by a particle of the part;
+//     merged with the pairwise formula of Chan, Golub and LeVeque, "Algorithms for computing the sample variance",
+//     1983: exact up to rounding), dt range, inside count.
 //  2. partialShape, with the merged moments: the Mahalanobis invariant J of every particle (ellipse.ts) binned on
 //     ACTION_BINS bins over [0, ACTION_MAX) plus one overflow bin, and the FWHM profile on the merged dt range.
 // Choice for the 90/95 % emittances: the union's order statistic is read from the merged J histogram, with linear
@@ -39,20 +40,32 @@ export interface PartialMoments {
 /** Pass 1 over one part: count, centroid, centred sums, dt range and the inside count. */
 export function partialMoments(b: Bunch, m: MachineState, bucket: BucketLimits | null): PartialMoments {
   const n = b.n, dt = b.dt, dE = b.dE;
-  let st = 0, se = 0, tMin = Infinity, tMax = -Infinity;
+  // One pass of sums about a point K: Σ(x − K)² − (Σ(x − K))²/n is the centred sum with a rounding error of order
+  // ε·n·(σ² + (x̄ − K)²). K is the median of a sample spread over the part, so a far outlier cannot be K, and x̄ − K
+  // stays within a few σ unless outliers drag the mean itself that far.
+  const kt = sampleMedian(dt, n), ke = sampleMedian(dE, n);
+  let st = 0, se = 0, stt = 0, see = 0, ste = 0, tMin = Infinity, tMax = -Infinity;
   for (let i = 0; i < n; i++) {
-    const t = dt[i];
-    st += t; se += dE[i];
+    const t = dt[i], x = t - kt, y = dE[i] - ke;
+    st += x; se += y; stt += x * x; see += y * y; ste += x * y;
     if (t < tMin) tMin = t;
     if (t > tMax) tMax = t;
   }
-  const meanDt = n ? st / n : 0, meanDE = n ? se / n : 0;
-  let vt = 0, ve = 0, c = 0;
-  for (let i = 0; i < n; i++) {
-    const x = dt[i] - meanDt, y = dE[i] - meanDE;
-    vt += x * x; ve += y * y; c += x * y;
-  }
-  return { n, total: b.total, meanDt, meanDE, m2t: vt, m2e: ve, m2c: c, tMin, tMax, inside: bucket ? insideSeparatrix(b, m, bucket) : 0 };
+  const mx = n ? st / n : 0, my = n ? se / n : 0;
+  const vt = Math.max(0, stt - st * mx), ve = Math.max(0, see - se * my), c = ste - st * my;
+  return { n, total: b.total, meanDt: kt + mx, meanDE: ke + my, m2t: vt, m2e: ve, m2c: c, tMin, tMax, inside: bucket ? insideSeparatrix(b, m, bucket) : 0 };
+}
+
+const SAMPLE = 33;
+const sample = new Float64Array(SAMPLE);
+
+// Median of up to SAMPLE values taken evenly over x[0..n) (0 if n = 0); NaN-free input assumed (alive particles).
+function sampleMedian(x: Float64Array, n: number): number {
+  if (n === 0) return 0;
+  const m = Math.min(SAMPLE, n);
+  for (let j = 0; j < m; j++) sample[j] = x[Math.floor((j * n) / m)];
+  const s = sample.subarray(0, m).sort();
+  return s[m >> 1];
 }
 
 /** Merge parts (pairwise update of centroid and centred sums). */
