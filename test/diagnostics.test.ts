@@ -6,7 +6,7 @@ import { bunchFrom, loseParticle, makeBunch, type Bunch } from '../core/bunch.ts
 import { hamiltonian, phaseOfDt } from '../core/bucket.ts';
 import {
   centroidSpectrum, computeDiagnostics, DiagnosticsLog, diagnosticsFromParts, fwhm, histogram2d, insideSeparatrix, lineDensity,
-  fractionEmittances, mergeMoments, partialMoments, partialShape, selectKth, type TurnDiagnostics,
+  fractionEmittances, lastSelectionPath, mergeMoments, partialMoments, partialShape, selectKth, type TurnDiagnostics,
 } from '../core/diagnostics/index.ts';
 import { machineAtStart } from '../core/machine.ts';
 import { makeRng } from '../core/rng.ts';
@@ -288,9 +288,33 @@ describe('fractionEmittances selection', () => {
       const x = b.dt[i] - mt, y = b.dE[i] - me;
       return (mom.varDE / det) * x * x + 2 * (-mom.cov / det) * x * y + (mom.varDt / det) * y * y;
     }).sort((x, y) => x - y);
-    const qs = [0.95, 0.5, 0.9, 0.9];
+    const qs = [0.95, 0.9, 0.9];
     const got = fractionEmittances(b, mom, qs);
+    expect(lastSelectionPath()).toBe('bracketed'); // two brackets from the sample
     qs.forEach((q, i) => expect(got[i]).toBe(Math.PI * J[Math.ceil(q * n) - 1] * Math.sqrt(det)));
+    const three = [0.95, 0.5, 0.9, 0.9]; // three brackets: the exact path
+    const got3 = fractionEmittances(b, mom, three);
+    expect(lastSelectionPath()).toBe('exact');
+    three.forEach((q, i) => expect(got3[i]).toBe(Math.PI * J[Math.ceil(q * n) - 1] * Math.sqrt(det)));
+  });
+
+  it('stays exact when the sample misrepresents the bunch (every sampled particle at the centre)', () => {
+    const n = 40_960, b = makeBunch(n), rng = makeRng(8); // the sample takes every 10th particle
+    for (let i = 0; i < n; i++) [b.dt[i], b.dE[i]] = i % 10 === 0 ? [0, 0] : [rng.normal() * 1e-9, rng.normal() * 1e5];
+    let mt = 0, me = 0;
+    for (let i = 0; i < n; i++) { mt += b.dt[i]; me += b.dE[i]; }
+    mt /= n; me /= n;
+    let vt = 0, ve = 0, c = 0;
+    for (let i = 0; i < n; i++) { const x = b.dt[i] - mt, y = b.dE[i] - me; vt += x * x; ve += y * y; c += x * y; }
+    const mom = { meanDt: mt, meanDE: me, varDt: vt / n, varDE: ve / n, cov: c / n };
+    const det = mom.varDt * mom.varDE - mom.cov * mom.cov;
+    const J = Array.from({ length: n }, (_, i) => {
+      const x = b.dt[i] - mt, y = b.dE[i] - me;
+      return (mom.varDE / det) * x * x + 2 * (-mom.cov / det) * x * y + (mom.varDt / det) * y * y;
+    }).sort((x, y) => x - y);
+    const got = fractionEmittances(b, mom, [0.9, 0.95]);
+    expect(lastSelectionPath()).toBe('exact'); // the ranks fell outside the sample's brackets
+    [0.9, 0.95].forEach((q, i) => expect(got[i]).toBe(Math.PI * J[Math.ceil(q * n) - 1] * Math.sqrt(det)));
   });
 });
 
