@@ -272,22 +272,29 @@ describe('diagnostics of a bunch split in two parts', () => {
   });
 });
 
+// Two-pass moments and the invariants J of all particles, sorted: the reference of the selection tests.
+function sortedInvariants(b: Bunch) {
+  const n = b.n;
+  let mt = 0, me = 0;
+  for (let i = 0; i < n; i++) { mt += b.dt[i]; me += b.dE[i]; }
+  mt /= n; me /= n;
+  let vt = 0, ve = 0, c = 0;
+  for (let i = 0; i < n; i++) { const x = b.dt[i] - mt, y = b.dE[i] - me; vt += x * x; ve += y * y; c += x * y; }
+  const mom = { meanDt: mt, meanDE: me, varDt: vt / n, varDE: ve / n, cov: c / n };
+  const det = mom.varDt * mom.varDE - mom.cov * mom.cov;
+  const J = Array.from({ length: n }, (_, i) => {
+    const x = b.dt[i] - mt, y = b.dE[i] - me;
+    return (mom.varDE / det) * x * x + 2 * (-mom.cov / det) * x * y + (mom.varDt / det) * y * y;
+  }).sort((x, y) => x - y);
+  return { mom, det, J, centred: { vt, ve, c } };
+}
+
 describe('fractionEmittances selection', () => {
   it('equals the order statistic of the sorted invariants, for several fractions, with a far outlier', () => {
     const n = 100_001, b = makeBunch(n), rng = makeRng(21);
     for (let i = 0; i < n; i++) { b.dt[i] = rng.normal() * 1e-9; b.dE[i] = (0.3 * b.dt[i] * 1e15 + rng.normal()) * 1e5; }
     b.dt[7] = 1e-3; // one particle 1e6 rms away: the counting bins become coarse, the result must stay exact
-    let mt = 0, me = 0;
-    for (let i = 0; i < n; i++) { mt += b.dt[i]; me += b.dE[i]; }
-    mt /= n; me /= n;
-    let vt = 0, ve = 0, c = 0;
-    for (let i = 0; i < n; i++) { const x = b.dt[i] - mt, y = b.dE[i] - me; vt += x * x; ve += y * y; c += x * y; }
-    const mom = { meanDt: mt, meanDE: me, varDt: vt / n, varDE: ve / n, cov: c / n };
-    const det = mom.varDt * mom.varDE - mom.cov * mom.cov;
-    const J = Array.from({ length: n }, (_, i) => {
-      const x = b.dt[i] - mt, y = b.dE[i] - me;
-      return (mom.varDE / det) * x * x + 2 * (-mom.cov / det) * x * y + (mom.varDt / det) * y * y;
-    }).sort((x, y) => x - y);
+    const { mom, det, J } = sortedInvariants(b);
     const qs = [0.95, 0.9, 0.9];
     const got = fractionEmittances(b, mom, qs);
     expect(lastSelectionPath()).toBe('bracketed'); // two brackets from the sample
@@ -301,17 +308,7 @@ describe('fractionEmittances selection', () => {
   it('stays exact when the sample misrepresents the bunch (every sampled particle at the centre)', () => {
     const n = 40_960, b = makeBunch(n), rng = makeRng(8); // the sample takes every 10th particle
     for (let i = 0; i < n; i++) [b.dt[i], b.dE[i]] = i % 10 === 0 ? [0, 0] : [rng.normal() * 1e-9, rng.normal() * 1e5];
-    let mt = 0, me = 0;
-    for (let i = 0; i < n; i++) { mt += b.dt[i]; me += b.dE[i]; }
-    mt /= n; me /= n;
-    let vt = 0, ve = 0, c = 0;
-    for (let i = 0; i < n; i++) { const x = b.dt[i] - mt, y = b.dE[i] - me; vt += x * x; ve += y * y; c += x * y; }
-    const mom = { meanDt: mt, meanDE: me, varDt: vt / n, varDE: ve / n, cov: c / n };
-    const det = mom.varDt * mom.varDE - mom.cov * mom.cov;
-    const J = Array.from({ length: n }, (_, i) => {
-      const x = b.dt[i] - mt, y = b.dE[i] - me;
-      return (mom.varDE / det) * x * x + 2 * (-mom.cov / det) * x * y + (mom.varDt / det) * y * y;
-    }).sort((x, y) => x - y);
+    const { mom, det, J } = sortedInvariants(b);
     const got = fractionEmittances(b, mom, [0.9, 0.95]);
     expect(lastSelectionPath()).toBe('exact'); // the ranks fell outside the sample's brackets
     [0.9, 0.95].forEach((q, i) => expect(got[i]).toBe(Math.PI * J[Math.ceil(q * n) - 1] * Math.sqrt(det)));
@@ -327,14 +324,10 @@ describe('partialMoments', () => {
     for (let i = 0; i < n; i++) { b.dt[i] = 2e-9 + rng.normal() * 1e-9; b.dE[i] = (0.3 * rng.normal() + rng.normal()) * 1e5; }
     b.dt[0] = 1e-3;
     b.dE[0] = 1e11;
-    let mt = 0, me = 0;
-    for (let i = 0; i < n; i++) { mt += b.dt[i]; me += b.dE[i]; }
-    mt /= n; me /= n;
-    let vt = 0, ve = 0, c = 0;
-    for (let i = 0; i < n; i++) { const x = b.dt[i] - mt, y = b.dE[i] - me; vt += x * x; ve += y * y; c += x * y; }
+    const { mom, centred: { vt, ve, c } } = sortedInvariants(b);
     const p = partialMoments(b, machineAtStart(setup()), null);
-    expect(Math.abs(p.meanDt / mt - 1)).toBeLessThan(1e-12);
-    expect(Math.abs(p.meanDE / me - 1)).toBeLessThan(1e-12);
+    expect(Math.abs(p.meanDt / mom.meanDt - 1)).toBeLessThan(1e-12);
+    expect(Math.abs(p.meanDE / mom.meanDE - 1)).toBeLessThan(1e-12);
     expect(Math.abs(p.m2t / vt - 1)).toBeLessThan(1e-10);
     expect(Math.abs(p.m2e / ve - 1)).toBeLessThan(1e-10);
     expect(Math.abs(p.m2c / c - 1)).toBeLessThan(1e-10);
