@@ -12,8 +12,9 @@
 //   kd_linear_<k>, kd_exact_<k>   fused kick + drift, returns the number outside the limits
 //   kdi_linear_<k>, kdi_exact_<k> the same with the induced-voltage stage (kick, then deposit after the drift;
 //                       core/kernels/induced.ts)
-// Pairs [2j, 2j+1] run through v128 loads/stores (the RF kicks two pairs per iteration); an odd last particle goes through the same code with
-// v128.load64_zero / v128.store64_lane, so the particle at index n (a lost one) is never touched.
+// Pairs [2j, 2j+1] run through v128 loads/stores (the RF kicks two pairs per iteration); an odd last particle goes
+// through the same code with v128.load64_zero / v128.store64_lane, so the particle at index n (a lost one) is never
+// touched.
 // The loss count: the lane mask of "inside" (all ones) is subtracted from an i64x2 counter, no branch.
 import { INV_PI, PI_HI, PI_LO, ROUND_MAGIC, SIN_COEFFS } from './sine.ts';
 
@@ -203,9 +204,10 @@ function kernelBody(rf: number, drift: DriftKind, induced = false): Code {
   const kickBody = kickOps({ T, E, X, K, KB, R, R2, ACC });
   // the second pair of the two-pair loops (pairs2Loop, kickPass2)
   const kick2 = kickOps({ T: T2, E: E2, X: X2, K: K2, KB: KB2, R: R_2, R2: R22, ACC: ACC2 });
-  const mask2 = set(MASK2, v128and(v128and(f64x2.le(f64x2.abs(g(T2)), DTMAX), f64x2.le(g(E2), DEMAX)), f64x2.ge(g(E2), DEMIN)));
-  const drift2 = drift === 'linear' ? [set(T2, add(g(T2), mul(SLIP, g(E2)))), mask2] : [];
-  const limitsMask = v128and(v128and(f64x2.le(f64x2.abs(g(T)), DTMAX), f64x2.le(g(E), DEMAX)), f64x2.ge(g(E), DEMIN));
+  // all ones where |dt| ≤ dtMax and dEmin ≤ dE ≤ dEmax (NaN: zeros)
+  const limitsOf = (t: number, e: number) => v128and(v128and(f64x2.le(f64x2.abs(g(t)), DTMAX), f64x2.le(g(e), DEMAX)), f64x2.ge(g(e), DEMIN));
+  const drift2 = drift === 'linear' ? [set(T2, add(g(T2), mul(SLIP, g(E2)))), set(MASK2, limitsOf(T2, E2))] : [];
+  const limitsMask = limitsOf(T, E);
   const driftBody: Code[] = [];
   {
   const body = driftBody;
@@ -271,7 +273,7 @@ function kernelBody(rf: number, drift: DriftKind, induced = false): Code {
     set(PT, i32.add(g(PT), i32c(32))), set(PE, i32.add(g(PE), i32c(32))),
     [0x0c, 0, 0x0b, 0x0b],
   ];
-  const twoPairs = rf > 0 && drift !== 'exact' && !induced; // (kicks alone, any count; split covers the rest)
+  const twoPairs = rf > 0 && drift !== 'exact' && !induced; // in effect one RF system: more go through splitLoop
   // Chunks of CHUNK particles (in L1): all kicks of the chunk, then (with an induced stage) all its induced kicks,
   // then all drifts, and the deposits (in the drift's loop after a linear drift, in their own after the exact one).
   // The exact drift's sqrt and division, two or more sines, and the induced stage's table look-ups make long
