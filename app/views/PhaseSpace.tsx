@@ -1,8 +1,8 @@
 // Phase-space view: the beam as a density image (or as SVG points when few) in (dt [ns], dE [MeV or keV]), with
-// the separatrix and fixed points of the bucket at the shown energy drawn over it. Three Plotly figures are
-// stacked with the same margins and ranges: axes (bottom; redrawn only when the window changes), beam (every
-// frame) and bucket (when the bucket changes). The two upper layers have no axes to draw, so each redraw
-// stays a short task. The window sticks until the bucket or beam clearly outgrows it (the rule the runner bins
+// the separatrix and fixed points of the bucket at the shown energy drawn over it. Layers are stacked with the
+// same margins and ranges: axes (Plotly, bottom; redrawn only when the window changes), the beam (every frame: a
+// canvas for the density, density.ts, or a Plotly layer for points) and the bucket (Plotly, when the bucket
+// changes). The upper layers have no axes to draw, so each redraw stays a short task. The window sticks until the bucket or beam clearly outgrows it (the rule the runner bins
 // by), so a ramp or a small edit redraws no axes, and an edit writes the bucket layer's new lines into its SVG in
 // the edit's own task (Plotly's update follows): the new separatrix shows in the same frame as the new numbers.
 import { useEffect, useRef } from 'react';
@@ -15,6 +15,7 @@ import { energyUnit } from '../units.ts';
 import { chooseWindow, needsRefit } from '../viewWindow.ts';
 import type { ViewWindow } from '../../workers/protocol.ts';
 import type { BucketView } from '../derived.ts';
+import { clearDensity, colourTable, drawDensity } from './density.ts';
 import { writeTraces } from './fastLine.ts';
 import { BASE_LAYOUT } from './Panel.tsx';
 import { savePng } from './png.ts';
@@ -23,33 +24,16 @@ import { useResize } from './useResize.ts';
 
 /** Density colours: pale paper to deep ink, empty cells left blank. */
 export const DENSITY_SCALE: [number, string][] = [[0, '#dfe8f1'], [0.25, '#8fb3d1'], [0.55, '#3f6f99'], [0.8, '#1f3b5c'], [1, '#0e1a2b']];
+const LUT = colourTable(DENSITY_SCALE);
 const SEP_COLOUR = '#c0561b';
+// Margins of every layer [px]: the density canvas draws into the same plot area.
+const MARGIN = { l: 60, r: 14, t: 8, b: 42 };
 const STATIC = { displayModeBar: false, responsive: true, staticPlot: true } as const;
 // The bucket layer follows a ramp at most this often [ms].
 const BUCKET_GAP_MS = 500;
 // The beam layer at most this often [ms]: draws start on animation frames (~16.7 ms apart), so a 40 ms gap would
 // mean every third frame (20 a second at best); 30 ms allows every second one (up to 30 a second, ≥ 20 wanted).
 const BEAM_GAP_MS = 30;
-
-// Rows of counts with empty cells left blank (null), and the range of the filled ones: given to Plotly as
-// zmin/zmax, it skips its own scan of the grid at every frame (same colours as its automatic range).
-function heatmapZ(h: Float32Array, nx: number, ny: number): { z: (number | null)[][]; zmin: number; zmax: number } {
-  const z: (number | null)[][] = new Array(ny);
-  let zmin = Infinity, zmax = 0;
-  for (let j = 0; j < ny; j++) {
-    const row: (number | null)[] = new Array(nx);
-    for (let i = 0; i < nx; i++) {
-      const c = h[j * nx + i];
-      if (c > 0) {
-        row[i] = c;
-        if (c < zmin) zmin = c;
-        if (c > zmax) zmax = c;
-      } else row[i] = null;
-    }
-    z[j] = row;
-  }
-  return zmax > 0 ? { z, zmin, zmax } : { z, zmin: 0, zmax: 1 };
-}
 
 // The bucket layer's three traces (always all three, so an update is a restyle of the same traces), in display units.
 function bucketTraces(bv: BucketView, k: number): { x: number[][]; y: number[][] } {
@@ -79,7 +63,7 @@ function layer(kind: LayerKind): Partial<Layout> {
   const axis = { type: 'linear' as const, visible: on, zeroline: on, zerolinecolor: '#cfd3d8', showgrid: on, showticklabels: on, ticks: on ? ('outside' as const) : ('' as const), autorange: false };
   return {
     ...BASE_LAYOUT,
-    margin: { l: 60, r: 14, t: 8, b: 42 },
+    margin: MARGIN,
     xaxis: { ...axis, title: { text: on ? 'time offset dt [ns] (late →)' : '' } },
     yaxis: { ...axis, title: { text: on ? 'energy offset dE [MeV]' : '' } },
     datarevision: 0,
@@ -98,6 +82,9 @@ function setRanges(L: Partial<Layout>, x: [number, number], y: [number, number],
 export function PhaseSpace() {
   const axesRef = useRef<HTMLDivElement>(null);
   const beamRef = useRef<HTMLDivElement>(null);
+  const densityRef = useRef<HTMLCanvasElement>(null);
+  const pointsShown = useRef(false);
+  const redrawBeam = useRef<(() => void) | null>(null); // the last beam drawing, again after a resize
   const topRef = useRef<HTMLDivElement>(null);
   const axesLayout = useRef(layer('axes'));
   const beamLayout = useRef(layer('beam'));
@@ -156,29 +143,45 @@ export function PhaseSpace() {
     } else scheduleDraw('bucket', laidOut.current === key ? restyle : layOut, BUCKET_GAP_MS);
   }, [bv, key]);
 
-  // Beam layer: density image or points.
+  // Beam layer: density image (canvas) or points (Plotly).
   useEffect(() => {
     if (!frame) return;
     setRanges(beamLayout.current, xr, yr);
-    scheduleDraw('phase', () => {
-      const data: Data[] = [];
+    const draw = () => {
+      const canvas = densityRef.current;
       if (frame.points) {
         const p = frame.points;
         const x = new Float32Array(p.dt.length), y = new Float32Array(p.dt.length);
         for (let i = 0; i < x.length; i++) { x[i] = p.dt[i] * 1e9; y[i] = p.dE[i] * k; }
         // SVG points (runner.POINTS_MAX keeps them few): no WebGL, and the bundle needs no scattergl.
-        data.push({ type: 'scatter', mode: 'markers', x, y, marker: { size: 2, color: '#1f3b5c', opacity: 0.6 }, hoverinfo: 'skip', name: 'particles' } as Data);
+        const data = [{ type: 'scatter', mode: 'markers', x, y, marker: { size: 2, color: '#1f3b5c', opacity: 0.6 }, hoverinfo: 'skip', name: 'particles' } as Data];
+        if (beamRef.current) Plotly.react(beamRef.current, data, beamLayout.current, STATIC);
+        pointsShown.current = true;
+        if (canvas) { clearDensity(canvas); canvas.dataset.counts = '0'; }
       } else {
-        const v = frame.view;
-        const dx = (v.dtMax - v.dtMin) / v.nx, dy = (v.dEMax - v.dEMin) / v.ny;
-        data.push({
-          type: 'heatmap', ...heatmapZ(frame.hist, v.nx, v.ny), x0: (v.dtMin + dx / 2) * 1e9, dx: dx * 1e9, y0: (v.dEMin + dy / 2) * k, dy: dy * k,
-          colorscale: DENSITY_SCALE, showscale: false, zsmooth: 'fast', name: 'density',
-        } as Data);
+        if (canvas) canvas.dataset.counts = String(drawDensity(canvas, frame.hist, frame.view, { margin: MARGIN, xr, yr, k }, LUT));
+        if (pointsShown.current && beamRef.current) Plotly.react(beamRef.current, [], beamLayout.current, STATIC);
+        pointsShown.current = false;
       }
-      if (beamRef.current) Plotly.react(beamRef.current, data, beamLayout.current, STATIC);
-    }, BEAM_GAP_MS);
+    };
+    redrawBeam.current = draw;
+    scheduleDraw('phase', draw, BEAM_GAP_MS);
   }, [frame, key]);
+
+  // The density canvas follows its box (Plotly layers follow theirs through useResize).
+  useEffect(() => {
+    const el = densityRef.current;
+    if (!el) return;
+    let last = '';
+    const ro = new ResizeObserver(() => {
+      const size = `${el.clientWidth}x${el.clientHeight}`;
+      if (size === last || el.clientWidth === 0) return;
+      last = size;
+      if (redrawBeam.current) scheduleDraw('phase', redrawBeam.current);
+    });
+    ro.observe(el);
+    return () => ro.disconnect();
+  }, []);
 
   return (
     <section className="panel phase" aria-labelledby="phase-title">
@@ -187,12 +190,13 @@ export function PhaseSpace() {
         <span className="panel-note" id="phase-state">
           {bv.bucket ? 'separatrix and fixed points (○ stable, × unstable)' : (bv.reason ?? 'no bucket').replace(/^(?!no bucket)/, 'no bucket: ')}
         </span>
-        <button type="button" className="small" title="Save this plot as a PNG image" onClick={() => savePng([axesRef.current, beamRef.current, topRef.current], 'phasewell-phase-space')}>
+        <button type="button" className="small" title="Save this plot as a PNG image" onClick={() => savePng([axesRef.current, densityRef.current, beamRef.current, topRef.current], 'phasewell-phase-space')}>
           PNG
         </button>
       </header>
       <div className="plot stack">
         <div className="layer" id="plot-phase-axes" ref={axesRef} />
+        <canvas className="layer" id="plot-phase-density" ref={densityRef} data-counts="0" />
         <div className="layer" id="plot-phase-beam" ref={beamRef} />
         <div className="layer" id="plot-phase" ref={topRef} />
       </div>

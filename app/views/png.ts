@@ -1,9 +1,9 @@
 // PNG export of one plot or of stacked plot layers (drawn in order onto one canvas).
 import Plotly from '../plotly.ts';
 
-/** Save the given Plotly divs, bottom layer first, as one PNG at twice the screen size. */
+/** Save the given Plotly divs and canvases, bottom layer first, as one PNG at twice the screen size. */
 export async function savePng(layers: (HTMLElement | null)[], filename: string): Promise<void> {
-  const els = layers.filter((e): e is HTMLElement => e !== null && 'data' in e);
+  const els = layers.filter((e): e is HTMLElement => e !== null && ('data' in e || e instanceof HTMLCanvasElement));
   if (!els.length) return;
   if (els.length === 1) {
     const el = els[0];
@@ -16,6 +16,10 @@ export async function savePng(layers: (HTMLElement | null)[], filename: string):
   canvas.height = h;
   const g = canvas.getContext('2d')!;
   for (const el of els) {
+    if (el instanceof HTMLCanvasElement) {
+      g.drawImage(el, 0, 0, w, h); // a canvas layer covers the same box as the plot layers
+      continue;
+    }
     const url = await Plotly.toImage(el, { format: 'png', width: w, height: h });
     const img = new Image();
     img.src = url;

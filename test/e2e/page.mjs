@@ -14,11 +14,17 @@ export async function waitReady(page, timeout = 20000) {
     const s = document.getElementById('status')?.textContent ?? '';
     const top = document.getElementById('plot-phase')?.data ?? [];
     const beam = document.getElementById('plot-phase-beam')?.data ?? [];
-    return s === 'ready' && top.some((t) => t.name === 'separatrix' && t.x?.length > 0) && beam.some((t) => t.name === 'density' || t.name === 'particles');
+    const density = Number(document.getElementById('plot-phase-density')?.dataset.counts ?? 0);
+    return s === 'ready' && top.some((t) => t.name === 'separatrix' && t.x?.length > 0) && (density > 0 || beam.some((t) => t.name === 'particles'));
   }, null, { timeout });
 }
 
-/** Trace summaries of a plot: name, type, point count, and the sum of a heatmap's z. */
+/** Particles counted in the density picture now on screen (its canvas layer records the sum of its cells). */
+export function densityCounts(page) {
+  return page.evaluate(() => Number(document.getElementById('plot-phase-density')?.dataset.counts ?? 0));
+}
+
+/** Trace summaries of a Plotly plot: name, type, point count, and the sum of a heatmap's z. */
 export function traces(page, id) {
   return page.evaluate((id) => {
     const el = document.getElementById('plot-' + id);

@@ -5,7 +5,7 @@ import { loadavg, cpus } from 'node:os';
 import { deflateSync, strToU8 } from 'fflate';
 import { serve } from './server.mjs';
 import { assert, runAll } from './harness.mjs';
-import { openApp, stepTo, summary, traces, waitReady } from './page.mjs';
+import { densityCounts, openApp, stepTo, summary, traces, waitReady } from './page.mjs';
 import { cycleTests } from './cycle.mjs';
 import { faultTests } from './faults.mjs';
 import { perfTests } from './perf.mjs';
@@ -25,9 +25,23 @@ const tests = [
     async fn({ ctx, url }) {
       const page = await openApp(ctx, url);
       const sep = (await traces(page, 'phase')).find((x) => x.name === 'separatrix');
-      const dens = (await traces(page, 'phase-beam')).find((x) => x.name === 'density');
+      const dens = await densityCounts(page);
       assert(sep && sep.n > 100, `separatrix has ${sep?.n} points`);
-      assert(dens && dens.zsum > 0.9 * demo.beam.particles, `density image holds ${dens?.zsum} of ${demo.beam.particles} particles`);
+      assert(dens > 0.9 * demo.beam.particles, `density image holds ${dens} of ${demo.beam.particles} particles`);
+      // The picture sits where the beam is: its dt extent on screen (through the axes' own range and plot area)
+      // against the extent of the line density, within two density cells (160 across the window) each side.
+      const [img, prof] = await page.evaluate(() => {
+        const c = document.getElementById('plot-phase-density'), d = c.getContext('2d').getImageData(0, 0, c.width, c.height).data;
+        let lo = Infinity, hi = -Infinity;
+        for (let y = 0; y < c.height; y++) for (let x = 0; x < c.width; x++) if (d[4 * (y * c.width + x) + 3] > 0) { lo = Math.min(lo, x); hi = Math.max(hi, x); }
+        const L = document.getElementById('plot-phase-axes')._fullLayout, s = L._size, r = L.xaxis.range, dpr = c.width / c.clientWidth;
+        const dtAt = (px) => r[0] + ((px / dpr - s.l) / s.w) * (r[1] - r[0]);
+        const p = document.getElementById('plot-profile').data[0], xs = Array.from(p.x), ys = Array.from(p.y);
+        const on = xs.filter((_, i) => ys[i] > 0), w = xs[1] - xs[0];
+        return [[dtAt(lo), dtAt(hi + 1), r[1] - r[0]], [on[0] - w / 2, on[on.length - 1] + w / 2]];
+      });
+      const cell = img[2] / 160;
+      assert(Math.abs(img[0] - prof[0]) < 2 * cell && Math.abs(img[1] - prof[1]) < 2 * cell, `density picture spans ${img.slice(0, 2)} ns, line density ${prof} ns`);
       assert(!(await page.content()).includes('WebGL is not supported'), 'a plot says WebGL is not supported');
       assert((await page.textContent('#caution')).includes('design exploration'), 'caution sentence missing');
       assert((await page.textContent('#setup-title')).toLowerCase().includes('fictional'), 'fictional label missing');
@@ -60,7 +74,7 @@ const tests = [
       await page.fill('#f-beam-distribution-size-value', '5');
       const err2 = await (await page.waitForSelector('#f-beam-distribution-size-value-error')).textContent();
       assert(/beam\.distribution\.size\.value = 5 eV·s: .*exceeds/.test(err2), `emittance error: ${err2}`);
-      assert((await traces(page, 'phase-beam')).find((t) => t.name === 'density').zsum > 0, 'the previous beam stays on screen');
+      assert((await densityCounts(page)) > 0, 'the previous beam stays on screen');
     },
   },
   {
@@ -186,9 +200,7 @@ const tests = [
       await page.fill('#f-beam-particles', '1000000');
       const t1 = Date.now();
       await page.waitForFunction(() => {
-        const d = document.getElementById('plot-phase-beam')?.data?.find((t) => t.name === 'density');
-        let n = 0;
-        if (d) for (const row of d.z) for (const v of row) n += v ?? 0;
+        const n = Number(document.getElementById('plot-phase-density')?.dataset.counts ?? 0);
         return n > 9e5 && document.getElementById('status').textContent === 'ready';
       }, null, { timeout: 40000 });
       console.log(`     1e6 particles generated and drawn in ${Date.now() - t1} ms`);
