@@ -2,10 +2,11 @@
 // the separatrix and fixed points of the bucket at the shown energy drawn over it. Layers are stacked with the
 // same margins and ranges: axes (Plotly, bottom; redrawn only when the window changes), the beam (every frame: a
 // canvas for the density, density.ts, or a Plotly layer for points) and the bucket (Plotly, when the bucket
-// changes). The upper layers have no axes to draw, so each redraw stays a short task. The window sticks until the bucket or beam clearly outgrows it (the rule the runner bins
-// by), so a ramp or a small edit redraws no axes, and an edit writes the bucket layer's new lines into its SVG in
-// the edit's own task (Plotly's update follows): the new separatrix shows in the same frame as the new numbers.
-import { useEffect, useRef } from 'react';
+// changes). The upper layers have no axes to draw, so each redraw stays a short task. The window sticks until the
+// bucket or beam clearly outgrows it (the rule the runner bins by), so a ramp or a small edit redraws no axes, and
+// an edit writes the bucket layer's new lines into its SVG in the edit's own task (Plotly's update follows): the
+// new separatrix shows in the same frame as the new numbers.
+import { useCallback, useEffect, useRef } from 'react';
 import type { Data, Layout } from 'plotly.js';
 import Plotly from '../plotly.ts';
 import { bucketAt } from '../derived.ts';
@@ -91,6 +92,7 @@ export function PhaseSpace() {
   const topLayout = useRef(layer('bucket'));
   useResize(axesRef, 'phase-axes');
   useResize(beamRef, 'phase-beam');
+  useResize(densityRef, 'phase', useCallback(() => redrawBeam.current?.(), []));
   useResize(topRef, 'phase-bucket');
   const valid = useApp((s) => s.valid);
   const frame = useApp((s) => s.frame);
@@ -167,21 +169,6 @@ export function PhaseSpace() {
     redrawBeam.current = draw;
     scheduleDraw('phase', draw, BEAM_GAP_MS);
   }, [frame, key]);
-
-  // The density canvas follows its box (Plotly layers follow theirs through useResize).
-  useEffect(() => {
-    const el = densityRef.current;
-    if (!el) return;
-    let last = '';
-    const ro = new ResizeObserver(() => {
-      const size = `${el.clientWidth}x${el.clientHeight}`;
-      if (size === last || el.clientWidth === 0) return;
-      last = size;
-      if (redrawBeam.current) scheduleDraw('phase', redrawBeam.current);
-    });
-    ro.observe(el);
-    return () => ro.disconnect();
-  }, []);
 
   return (
     <section className="panel phase" aria-labelledby="phase-title">

@@ -1,6 +1,6 @@
 // Browser tests of the built app (dist/): served from localhost, driven in Chromium. Prints one line
 // "e2e: N passed, N failed" at the end and exits non-zero on any failure.
-import { mkdirSync, readFileSync } from 'node:fs';
+import { copyFileSync, mkdirSync, readFileSync } from 'node:fs';
 import { loadavg, cpus } from 'node:os';
 import { deflateSync, strToU8 } from 'fflate';
 import { serve } from './server.mjs';
@@ -42,6 +42,23 @@ const tests = [
       });
       const cell = img[2] / 160;
       assert(Math.abs(img[0] - prof[0]) < 2 * cell && Math.abs(img[1] - prof[1]) < 2 * cell, `density picture spans ${img.slice(0, 2)} ns, line density ${prof} ns`);
+      // The saved image (layers composed at twice the size) holds the density: the bunch's middle is ink-blue.
+      const [d] = await Promise.all([page.waitForEvent('download'), page.click('section.phase button')]);
+      const file = await d.path();
+      copyFileSync(file, ARTIFACTS + 'phase-space-export.png');
+      const rgb = await page.evaluate(async ([b64, mid]) => {
+        const im = new Image();
+        im.src = 'data:image/png;base64,' + b64;
+        await im.decode();
+        const c = document.createElement('canvas');
+        [c.width, c.height] = [im.width, im.height];
+        const g = c.getContext('2d');
+        g.drawImage(im, 0, 0);
+        const L = document.getElementById('plot-phase-axes')._fullLayout, s = L._size, xr = L.xaxis.range, yr = L.yaxis.range;
+        const x = 2 * (s.l + ((mid - xr[0]) / (xr[1] - xr[0])) * s.w), y = 2 * (s.t + (yr[1] / (yr[1] - yr[0])) * s.h);
+        return Array.from(g.getImageData(Math.round(x), Math.round(y) + 6, 1, 1).data); // a little below the stable point's mark
+      }, [readFileSync(file).toString('base64'), (img[0] + img[1]) / 2]);
+      assert(rgb[2] > rgb[0] + 40, `exported picture at the bunch's middle: rgba ${rgb}`);
       assert(!(await page.content()).includes('WebGL is not supported'), 'a plot says WebGL is not supported');
       assert((await page.textContent('#caution')).includes('design exploration'), 'caution sentence missing');
       assert((await page.textContent('#setup-title')).toLowerCase().includes('fictional'), 'fictional label missing');
