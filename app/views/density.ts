@@ -33,7 +33,8 @@ export function colourTable(scale: [number, string][], n = 256): Uint8ClampedArr
   return out;
 }
 
-let cells: HTMLCanvasElement | null = null; // the nx × ny image, reused
+let cells: HTMLCanvasElement | null = null; // the nx × ny image and its pixels, reused from picture to picture
+let img: ImageData | null = null;
 
 /**
  * Draw counts `hist` (row-major [dE bin][dt bin] over window v) on `canvas` (the size of the plot layer);
@@ -44,8 +45,9 @@ export function drawDensity(canvas: HTMLCanvasElement, hist: Float32Array, v: Vi
   cells ??= document.createElement('canvas');
   if (cells.width !== nx || cells.height !== ny) { cells.width = nx; cells.height = ny; }
   const cg = cells.getContext('2d')!;
-  const img = cg.createImageData(nx, ny);
+  if (!img || img.width !== nx || img.height !== ny) img = cg.createImageData(nx, ny);
   const px = img.data, levels = lut.length / 4 - 1;
+  px.fill(0);
   let zmin = Infinity, zmax = 0, total = 0;
   for (let i = 0; i < hist.length; i++) {
     const c = hist[i];
