@@ -12,8 +12,10 @@ const BUCKET_MARGIN = 1.15;
 const BEAM_SIGMAS = 5;
 // When the bucket is far larger than the beam (near transition), cap the window at this many beam extents.
 const MAX_OVER_BEAM = 3;
-// Refit when the wanted range grows past GROW × or shrinks below SHRINK × the current one.
-const GROW = 1.02;
+// Refit when the wanted range grows past GROW × or shrinks below SHRINK × the current one. GROW stays inside the
+// bucket margin, so a separatrix that grows by less than that is still in the window; small edits and ramps then
+// redraw no axes (a refit lays out all three layers, ~20 ms).
+const GROW = 1.1;
 const SHRINK = 0.45;
 
 /** Window for a bucket and (if known) the current beam. */
