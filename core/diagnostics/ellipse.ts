@@ -58,9 +58,8 @@ export function fractionEmittances(b: Bunch, mom: SecondMoments, qs: readonly nu
   if (counts.length !== BINS + 1) counts = new Uint32Array(BINS + 1);
   const cnt = counts;
   cnt.fill(0);
-  out.fill(0);
-  if (prof) invariantsAndProfile(dt, dE, n, mt, me, a, c, d, J, cnt, scale, out, lo, 1 / w);
-  else invariants(dt, dE, n, mt, me, a, c, d, J, cnt, scale);
+  invariants(dt, dE, n, mt, me, a, c, d, J, cnt, scale);
+  if (profile) fwhmCounts(b, profile.tMin, profile.tMax, profile.out); // its own pass: this path is the rare one
   return rankValues(J, n, scale, ranks).map((j) => Math.PI * j * eps);
 }
 
@@ -141,18 +140,6 @@ function invariants(dt: Float64Array, dE: Float64Array, n: number, mt: number, m
     const v = a * x * x + 2 * c * x * y + d * y * y;
     J[i] = v;
     cnt[v > 0 ? Math.min(BINS, Math.floor(v * scale)) : 0]++;
-  }
-}
-
-// The same, also counting dt in fwhmCounts' bins (first bin edge lo, 1/width inv).
-function invariantsAndProfile(dt: Float64Array, dE: Float64Array, n: number, mt: number, me: number, a: number, c: number, d: number, J: Float64Array, cnt: Uint32Array, scale: number, out: Float64Array, lo: number, inv: number): void {
-  const last = out.length - 2; // tMax lands in the last full bin
-  for (let i = 0; i < n; i++) {
-    const t = dt[i], x = t - mt, y = dE[i] - me;
-    const v = a * x * x + 2 * c * x * y + d * y * y;
-    J[i] = v;
-    cnt[v > 0 ? Math.min(BINS, Math.floor(v * scale)) : 0]++;
-    out[Math.min(last, Math.floor((t - lo) * inv))] += 1;
   }
 }
 
