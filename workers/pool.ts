@@ -124,11 +124,11 @@ export class TrackPool {
   }
 
   private async splitInit(s: Setup, v: ViewWindow, ms: number): Promise<RunFrame> {
-    const parts = await Promise.all([0, 1].map((k) => this.guard(this.member(k).api.initPart(s, { index: k, count: 2 }, v), ms, 'generating the beam')));
+    const parts = await Promise.all([0, 1].map((k) => this.guard(this.member(k).api.initPart(s, { index: k, count: 2 }, null), ms, 'generating the beam')));
     const { port1, port2 } = new MessageChannel();
     await this.guard(this.member(1).api.link(Comlink.transfer(port2, [port2]), false), CALL_DEADLINE_MS, 'linking the workers');
     await this.guard(this.member(0).api.link(Comlink.transfer(port1, [port1]), true), CALL_DEADLINE_MS, 'linking the workers');
-    const f = await this.guard(this.member(0).api.splitFrame(v), ms, 'diagnostics');
+    const f = await this.guard(this.member(0).api.splitFrame(v), ms, 'diagnostics'); // the pictures are binned here
     f.matched = parts[0].matched ?? null;
     this.note(f);
     return f;

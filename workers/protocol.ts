@@ -99,8 +99,8 @@ export interface TrackApi {
   reset(view: ViewWindow, pointsMax: number): Promise<RunFrame>;
   /** Copy of all particles (alive first) for export. */
   particles(): Promise<{ dt: Float64Array; dE: Float64Array; alive: number }>;
-  /** Split mode: generate the whole beam of a setup, keep part `index` of `count` contiguous parts. */
-  initPart(setup: Setup, part: Part, view: ViewWindow): Promise<PartFrame>;
+  /** Split mode: generate the whole beam of a setup, keep part `index` of `count` contiguous parts (picture with a view). */
+  initPart(setup: Setup, part: Part, view: ViewWindow | null): Promise<PartFrame>;
   /** Split mode: track exactly `turns` turns; with a view, also bin the picture. */
   advance(turns: number, view: ViewWindow | null): Promise<PartFrame>;
   /** Split mode, pass 1 of the diagnostics of this part; with a view, also its line density. */
