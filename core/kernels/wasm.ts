@@ -10,7 +10,7 @@
 import { checkInduced, inducedTableLength, type InducedParams } from './induced.ts';
 import { checkColumns, checkKick, MAX_RF, type Columns, type DriftParams, type KickParams, type Limits, type TurnKernel } from './types.ts';
 import { DEGREE, DriftSeries } from './series.ts';
-import { buildKernelModule, HEAP_BASE, kernelName, PARAM, SCRATCH } from './wasmModule.ts';
+import { buildKernelModule, HEAP_BASE, kernelName, PARAM, rowKey, SCRATCH } from './wasmModule.ts';
 
 // The few WebAssembly declarations we need (core compiles with lib ES2022, which has none).
 export interface WasmMemory {
@@ -109,7 +109,6 @@ function kernelOver(memory: WasmMemory, instance: WasmInstance): WasmTurnKernel 
 
   let buffer = memory.buffer;
   let params = new Float64Array(buffer, 0, HEAP_BASE / 8);
-  let iparams = new Int32Array(buffer, 0, HEAP_BASE / 4);
   const series = new DriftSeries();
   const live = new Map<Columns, Block>();
   const liveInduced = new Map<InducedParams, Block>(); // volts at offset, cells 16·⌈(nb+2)/2⌉ bytes further
@@ -119,7 +118,6 @@ function kernelOver(memory: WasmMemory, instance: WasmInstance): WasmTurnKernel 
   function refresh(): void {
     buffer = memory.buffer;
     params = new Float64Array(buffer, 0, HEAP_BASE / 8);
-    iparams = new Int32Array(buffer, 0, HEAP_BASE / 4);
     for (const [p, b] of liveInduced) inducedViews(p, b);
     for (const [cols, b] of live) {
       cols.dt = new Float64Array(buffer, b.offset, b.n);
@@ -265,12 +263,12 @@ function kernelOver(memory: WasmMemory, instance: WasmInstance): WasmTurnKernel 
         throw new Error('induced stage: its tables are not this kernel\'s: make them with kernel.allocInduced(nb), same nb');
       writeKick(kick);
       writeDrift(drift, limits);
-      const p = params, ip = iparams;
+      const p = params;
       p[PARAM.IND_INV / 8] = ind.inv;
       p[PARAM.IND_Y0 / 8] = ind.y0;
       p[PARAM.IND_TOP / 8] = 2 * ind.nb + 1;
-      ip[PARAM.IND_VOLTS / 4] = ind.volts.byteOffset;
-      ip[PARAM.IND_CELLS / 4] = ind.cells.byteOffset;
+      p[PARAM.IND_VKEY / 8] = rowKey(ind.volts.byteOffset);
+      p[PARAM.IND_CKEY / 8] = rowKey(ind.cells.byteOffset);
       return (drift.kind === 'linear' ? kdiLinear : kdiExact)[kick.count]!(dt, cols.dE.byteOffset, n);
     },
     kick(cols: Columns, n: number, kick: KickParams): void {

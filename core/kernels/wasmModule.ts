@@ -28,7 +28,7 @@ export const PARAM = {
   A: 0, W: 32, PHI: 64, SYNC: 96, SLIP: 104, PERIOD: 112, INV_ES: 120, INV_B2: 128, INV_B2G2: 136,
   AL0: 144, AL1: 152, AL2: 160, DT_MAX: 168, DE_MIN: 176, DE_MAX: 184,
   IND_INV: 192, IND_Y0: 200, IND_TOP: 208, // induced stage: f64 (TOP = 2nb + 1, the last row)
-  IND_VOLTS: 228, IND_CELLS: 232, // induced stage: i32 (byte addresses of the tables)
+  IND_VKEY: 216, IND_CKEY: 224, // induced stage: f64 row keys of the tables (rowKey below)
   SERIES_REACH: 240, SERIES: 248, // exact drift's series (core/kernels/series.ts): reach [eV], then b_1 … b_DEGREE
   ZERO_I32: 440, // an i32 0 read at entry as the base address of the block
 } as const;
@@ -36,6 +36,13 @@ export const PARAM = {
 export const SCRATCH = 448;
 /** First byte available to particle columns. */
 export const HEAP_BASE = 512;
+
+/**
+ * Row key of an induced-stage table at byteOffset: for a row number j (a small integer held as f64), the f64 sum
+ * j + key has 16j + byteOffset, the row's byte address, in its low 32 bits: the key is 1.5·2^48 + byteOffset/16,
+ * where the spacing of f64 values is 1/16, so the sum is exact and its mantissa counts sixteenths.
+ */
+export const rowKey = (byteOffset: number): number => 1.5 * 2 ** 48 + byteOffset / 16;
 
 /** Particles per chunk of the split kick-then-drift loop (2 × 8 kB of columns: stays in L1). */
 const CHUNK = 512;
@@ -130,7 +137,7 @@ function kernelBody(rf: number, drift: DriftKind, induced = false): Code {
   const T = v(), E = v(), X = v(), K = v(), KB = v(), R = v(), R2 = v(), ACC = v(), MASK = v(), CNT = v();
   const EPS = v(), WW = v(), DELTA = v();
   const T2 = v(), E2 = v(), X2 = v(), K2 = v(), KB2 = v(), R_2 = v(), R22 = v(), ACC2 = v(), MASK2 = v(); // second pair
-  const XI = v(), KI = v(), FI = v(), LA = v(), LB = v(), KV = v(), VBV = v(), CBV = v(); // induced stage
+  const XI = v(), KI = v(), FI = v(), LA = v(), LB = v(), KV = v(); // induced stage
   const XI2 = v(), KI2 = v(), FI2 = v(), LA2 = v(), LB2 = v(), KV2 = v(); // its second pair
   const nV128 = next - firstV;
   const { add, sub, mul, div } = f64x2;
@@ -142,28 +149,22 @@ function kernelBody(rf: number, drift: DriftKind, induced = false): Code {
   const SYNC = P(PARAM.SYNC), SLIP = P(PARAM.SLIP), PERIOD = P(PARAM.PERIOD), INVES = P(PARAM.INV_ES), INVB2 = P(PARAM.INV_B2);
   const INVB2G2 = P(PARAM.INV_B2G2), AL0 = P(PARAM.AL0), AL1 = P(PARAM.AL1), AL2 = P(PARAM.AL2);
   const DTMAX = P(PARAM.DT_MAX), DEMIN = P(PARAM.DE_MIN), DEMAX = P(PARAM.DE_MAX);
-  const i32load = (offset: number): Code => [get(BASE), 0x28, 2, uleb(offset)];
   const setup: Code[] = [set(BASE, [i32c(0), 0x28, 2, uleb(PARAM.ZERO_I32)])]; // i32.load
-  const i32splat = (c: Code): Code => [c, simd(0x11)];
-  if (induced) setup.push(
-    set(VBV, i32splat(i32load(PARAM.IND_VOLTS))), set(CBV, i32splat(i32load(PARAM.IND_CELLS))),
-  );
 
-  // Induced stage (core/kernels/induced.ts): y = dt·inv − y0 of the pair in T; row j = ⌊clamp(y, 0, 2nb+1)⌋ as an
-  // integer in i32 lanes 0 and 2 (by the sine's rounding trick), turned into a byte address (rows of 16 bytes);
-  // f = y − j. The clamp's operand order sends NaN to 0 (pmax(0, y) = 0 < y ? y : 0): every row is in the tables.
+  // Induced stage (core/kernels/induced.ts): y = dt·inv − y0 of the pair in T; row j = ⌊clamp(y, 0, 2nb+1)⌋;
+  // j + key (rowKey) leaves the row's byte address in i32 lanes 0 and 2; f = y − j. The clamp's operand order sends
+  // NaN to 0 (pmax(0, y) = 0 < y ? y : 0): every row is in the tables.
   interface RowLocals { T: number; E: number; XI: number; KI: number; FI: number; LA: number; LB: number; KV: number }
   const R1: RowLocals = { T, E, XI, KI, FI, LA, LB, KV };
-  const rowPair = (L: RowLocals, base: number): Code[] => [
+  const rowPair = (L: RowLocals, key: number): Code[] => [
     set(L.XI, sub(mul(g(L.T), P(PARAM.IND_INV)), P(PARAM.IND_Y0))),
     set(L.FI, f64x2.floor(f64x2.pmin(f64x2.pmax(ZERO, g(L.XI)), P(PARAM.IND_TOP)))),
-    set(L.KI, add(g(L.FI), MAGIC)),
+    set(L.KI, add(g(L.FI), P(key))),
     set(L.FI, sub(g(L.XI), g(L.FI))),
-    set(L.KI, i32x4.add(i32x4.shl(g(L.KI), 4), g(base))),
   ];
   // dE += a_j + f·d_j: one aligned load per particle, lanes regrouped into (a0, a1) and (d0, d1).
   const inducedKickOps = (L: RowLocals): Code[] => [
-    ...rowPair(L, VBV),
+    ...rowPair(L, PARAM.IND_VKEY),
     set(L.LA, v128load(i32x4.lane(g(L.KI), 0))),
     set(L.LB, v128load(i32x4.lane(g(L.KI), 2))),
     set(L.KV, shuffle(g(L.LA), g(L.LB), [...LO_LANES, ...plus16(LO_LANES)])),
@@ -177,7 +178,7 @@ function kernelBody(rf: number, drift: DriftKind, induced = false): Code {
     set(ADDR, i32x4.lane(g(KI), 2 * j)),
     v128store(g(ADDR), add(v128load(g(ADDR)), shuffle(ONE, g(FI), [...LO_LANES, ...plus16(j === 0 ? LO_LANES : HI_LANES)]))),
   ];
-  const deposit = (tail: boolean): Code[] => [...rowPair(R1, CBV), ...depositLane(0), ...(tail ? [] : depositLane(1))];
+  const deposit = (tail: boolean): Code[] => [...rowPair(R1, PARAM.IND_CKEY), ...depositLane(0), ...(tail ? [] : depositLane(1))];
 
   // The map for the two particles in T, E (as sinPoly and js.ts, operation for operation).
   interface KickLocals { T: number; E: number; X: number; K: number; KB: number; R: number; R2: number; ACC: number }
