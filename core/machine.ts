@@ -6,12 +6,12 @@
 // Programs (core/program): table and smooth ramps give p·c(t), so turn n+1 has p·c(t_n + T0(n)); RF programs give
 // V_k(t_n) and Φ_k(t_n) on turn n; rf.slope 'timed' puts the transition jump at rf.switchTime.
 import { C_LIGHT, DEG, TWO_PI } from './constants.ts';
-import { eta0, eta1, fromKinetic, fromMomentum, fromTotal, hypot, type Compaction, type Kinematics } from './kinematics.ts';
+import { eta0, eta1, fromKinetic, fromMomentum, fromTotal, type Compaction, type Kinematics } from './kinematics.ts';
 import { makeParticle, type Particle } from './particle.ts';
 import { energyLossPerTurn, radiationLattice, type RadiationLattice } from './radiation.ts';
 import type { RfWave } from './rf.ts';
 import type { Setup } from './setup/schema.ts';
-import { findSyncPhase, solveSyncPhase, stableSlope, type Slope } from './synchronous.ts';
+import { solveSyncPhase, storeSyncPhase, stableSlope, type Slope } from './synchronous.ts';
 import { buildPrograms, fmtEvent, slopeSwitchMessage, type CyclePrograms, type MachineEvent } from './program/machinePrograms.ts';
 
 // RF phases are quoted as the particle sees them (its energy gain), so the sign of the charge is absorbed in the
@@ -92,6 +92,7 @@ export class MachineStepper {
   private fresh = true; // no events on the first refresh
   private readonly radiation: RadiationLattice | null;
   private pcStep = 0; // change of p·c during the current turn [eV], set by refresh (once per turn)
+  private readonly found = new Float64Array(1); // φs from storeSyncPhase (a returned number would be boxed)
 
   constructor(setup: Setup) {
     this.setup = setup;
@@ -131,24 +132,30 @@ export class MachineStepper {
     this.refresh();
   }
 
-  // Change of p·c [eV] during the current turn (refresh stores it in pcStep, so the programs are read once per turn).
-  private momentumStep(): number {
+  // Change of p·c [eV] during the current turn, into pcStep (so the programs are read once per turn). Each case
+  // stores its own value: returned from a switch, the merged number was boxed (16 bytes a turn).
+  private storeMomentumStep(): void {
     const s = this.state;
     const r = this.setup.energy.ramp;
     switch (r.kind) {
       case 'flat':
-        return 0;
+        this.pcStep = 0;
+        break;
       case 'gainPerTurn': {
         const E = s.Es + r.value, m = s.particle.mass;
-        return Math.sqrt((E - m) * (E + m)) - s.pc;
+        this.pcStep = Math.sqrt((E - m) * (E + m)) - s.pc;
+        break;
       }
       case 'bDot':
-        return Math.abs(s.particle.Z) * C_LIGHT * this.setup.ring.bendingRadius! * r.value * s.T0;
+        this.pcStep = Math.abs(s.particle.Z) * C_LIGHT * this.setup.ring.bendingRadius! * r.value * s.T0;
+        break;
       case 'momentumRate':
-        return r.value * s.T0;
+        this.pcStep = r.value * s.T0;
+        break;
       case 'table':
       case 'smooth':
-        return this.programs.pc!.at(s.time + s.T0) - s.pc;
+        this.pcStep = this.programs.pc!.at(s.time + s.T0) - s.pc;
+        break;
     }
   }
 
@@ -161,15 +168,18 @@ export class MachineStepper {
     s.omegaRf = s.h * s.omega0;
     s.eta0 = eta0(s.compaction, s.gamma);
     s.eta1 = eta1(s.compaction, s.gamma, s.beta);
-    this.pcStep = this.momentumStep();
-    s.dEs = hypot(s.pc + this.pcStep, s.particle.mass) - s.Es;
+    this.storeMomentumStep();
+    const pc1 = s.pc + this.pcStep, m = s.particle.mass; // E at the end of the turn = hypot(pc1, m), written out (KINEMATICS)
+    const a = pc1 < 0 ? -pc1 : pc1, big = a > m ? a : m, r = (a > m ? m : a) / big;
+    s.dEs = big * Math.sqrt(1 + r * r) - s.Es;
     s.U0 = this.radiation ? energyLossPerTurn(s.particle, s.Es, this.radiation) : 0;
     (s.wave as { dEs: number }).dEs = s.dEs + s.U0; // synchronous condition ZΣV sin φ_k = ΔE_s + U0 (PHYSICS.md §4, §11)
     this.followRfPrograms();
     const slope0 = s.slope, phi0 = s.phiS, had = s.noBucket === null;
     const want = this.setup.rf.slope;
     s.slope = want === 'auto' ? stableSlope(s.eta0) : want === 'timed' ? (s.time < this.setup.rf.switchTime! ? 'rising' : 'falling') : want;
-    s.phiS = findSyncPhase(s.wave, s.slope);
+    storeSyncPhase(s.wave, s.slope, this.found);
+    s.phiS = this.found[0];
     if (Number.isNaN(s.phiS)) {
       const sol = solveSyncPhase(s.wave, s.slope); // only to word the reason (rare)
       s.noBucket = sol.ok ? null : sol.reason;
@@ -210,10 +220,14 @@ export class MachineStepper {
   }
 }
 
+// KINEMATICS: E = hypot(pc, m) (core/kinematics.ts) is written out where it runs every turn, for m > 0 (the same
+// operations, without the special cases m > 0 makes moot): the tracker's turn is too big for V8 to inline every
+// call in it, and a call it does not inline boxes its number arguments and result (16 bytes each, every turn).
 // Synchronous kinematics from s.pc, written in place (no object per turn).
 function setKinematics(s: MachineState): void {
   const m = s.particle.mass, pc = s.pc;
-  s.Es = hypot(pc, m);
+  const a = pc < 0 ? -pc : pc, big = a > m ? a : m, r = (a > m ? m : a) / big;
+  s.Es = big * Math.sqrt(1 + r * r); // hypot(pc, m), written out (KINEMATICS)
   s.gamma = s.Es / m;
   s.beta = pc / s.Es;
   s.T = s.Es - m;

@@ -69,11 +69,23 @@ export function solveSyncPhase(w: RfWave, slope: Slope): SyncPhase {
 
 /** As solveSyncPhase, without allocating: φs in [−π/2, 3π/2), or NaN when there is no stable phase. */
 export function findSyncPhase(w: RfWave, slope: Slope): number {
+  storeSyncPhase(w, slope, found);
+  return found[0];
+}
+const found = new Float64Array(1);
+
+/**
+ * findSyncPhase into out[0]. For code run once per turn: a number returned from a call the compiler does not
+ * inline is boxed (a 16-byte object per turn); one written into a Float64Array is not.
+ */
+export function storeSyncPhase(w: RfWave, slope: Slope, out: Float64Array): void {
   const ZV1 = w.ZV[0];
-  if (!(ZV1 > 0)) return NaN;
+  out[0] = NaN;
+  if (!(ZV1 > 0)) return;
   const x = Math.max(-1, Math.min(1, w.dEs / ZV1));
   const guess = slope === 'rising' ? Math.asin(x) : Math.PI - Math.asin(x);
-  const nmax = maxHarmonicRatio(w);
+  let nmax = 1;
+  for (let k = 0; k < w.n.length; k++) nmax = Math.max(nmax, Math.abs(w.n[k])); // maxHarmonicRatio, inline
   const N = Math.max(MIN_SAMPLES, Math.ceil(SAMPLES_PER_HARMONIC_PERIOD * nmax));
   const a0 = guess - Math.PI;
   const step = (2 * Math.PI) / N;
@@ -98,7 +110,9 @@ export function findSyncPhase(w: RfWave, slope: Slope): number {
     aPrev = b;
     fPrev = fb;
   }
-  return Number.isNaN(best) ? NaN : wrapSyncPhase(best);
+  if (Number.isNaN(best)) return;
+  const q = (((best + Math.PI / 2) % (2 * Math.PI)) + 2 * Math.PI) % (2 * Math.PI); // wrapSyncPhase, written out:
+  out[0] = q - Math.PI / 2; // a call the compiler did not inline boxed its argument and result
 }
 
 /** Largest energy gain Z·ΣV_k sin(n_k φ + Φ_k) over one main period [eV] (sampled, then refined). */

@@ -22,6 +22,28 @@ export function dEAtDelta(x: number, pc: number, Es: number, mass: number): numb
   return (pc * pc * x * (2 + x)) / (E + Es);
 }
 
+/** A momentum aperture a = |Δp/p| and its energy bounds [eV] for one machine state. */
+export interface EnergyBounds {
+  aperture: number;
+  dEmin: number;
+  dEmax: number;
+}
+
+/**
+ * b.dEmax = dEAtDelta(a, …) and b.dEmin = dEAtDelta(−a, …) for the state m, the same operations written out: run
+ * every turn, and numbers passed to or returned from a call V8 does not inline are boxed (core/machine.ts KINEMATICS).
+ */
+export function storeEnergyBounds(b: EnergyBounds, m: MachineState): void {
+  const pc = m.pc, Es = m.Es, mass = m.particle.mass;
+  for (let k = 0; k < 2; k++) {
+    const x = k === 0 ? b.aperture : -b.aperture;
+    const p = pc * (1 + x), ap = p < 0 ? -p : p, big = ap > mass ? ap : mass, r = (ap > mass ? mass : ap) / big;
+    const dE = (pc * pc * x * (2 + x)) / (big * Math.sqrt(1 + r * r) + Es); // E(p) = hypot(p, mass)
+    if (k === 0) b.dEmax = dE;
+    else b.dEmin = dE;
+  }
+}
+
 /**
  * Drift over `frac` of the turn; `m` passed to apply must be the state of the next turn (n+1).
  * reverse = true applies the inverse drift (dt −= ...), for reversibility checks.

@@ -7,13 +7,14 @@
 import type { Bunch } from '../bunch.ts';
 import { compactLost, depositLost, makeDriftParams, makeKickParams, type Columns, type InducedParams, type Limits, type TurnKernel } from '../kernels/index.ts';
 import type { MachineState } from '../machine.ts';
-import { dEAtDelta, type DriftMode } from './drift.ts';
+import { storeEnergyBounds, type DriftMode, type EnergyBounds } from './drift.ts';
 
 /** Kick and drift parameter blocks filled from machine states, reused every turn (no allocation). */
 export class KernelGap {
   private readonly kick = makeKickParams();
   private readonly drift;
   private readonly limits: Limits = { dtMax: 0, dEmax: 0, dEmin: 0 };
+  private readonly bounds: EnergyBounds;
   private readonly last: Float64Array; // last valid φ_k (kept when the bucket vanishes, as rfKick does)
   readonly cols: Columns;
 
@@ -21,10 +22,11 @@ export class KernelGap {
     private readonly kernel: TurnKernel,
     private readonly systems: readonly number[],
     private readonly mode: DriftMode,
-    private readonly aperture: number,
+    aperture: number,
     cols: Columns,
   ) {
     this.drift = makeDriftParams(mode);
+    this.bounds = { aperture, dEmin: 0, dEmax: 0 };
     this.last = new Float64Array(systems.length).fill(NaN);
     this.cols = cols;
   }
@@ -55,8 +57,9 @@ export class KernelGap {
       d.alpha0 = m.compaction.alpha0; d.alpha1 = m.compaction.alpha1; d.alpha2 = m.compaction.alpha2;
     }
     this.limits.dtMax = 0.5 * m.T0;
-    this.limits.dEmax = dEAtDelta(this.aperture, m.pc, m.Es, m.particle.mass);
-    this.limits.dEmin = dEAtDelta(-this.aperture, m.pc, m.Es, m.particle.mass);
+    storeEnergyBounds(this.bounds, m);
+    this.limits.dEmax = this.bounds.dEmax;
+    this.limits.dEmin = this.bounds.dEmin;
   }
 
   /** The kick alone (when other elements act between kick and drift). */
