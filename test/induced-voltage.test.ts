@@ -226,3 +226,26 @@ describe('reports: voltages, distorted well and energy balance', () => {
     expect(2e5 * Math.sin(m.phiS + m.omegaRf * w.bottom) + sc.calc.voltageAt(w.bottom)).toBeCloseTo(0, 0);
   });
 });
+
+describe('smoothed current and voltage from one inverse FFT', () => {
+  // Independent computation: the two inverse transforms done apart (smoothed, addVoltage). Packing two Hermitian
+  // spectra as A + iB is exact in exact arithmetic; the tolerance is rounding of a 2048-point FFT (common practice).
+  it('equals the two separate inverse transforms within 1e-12 of their largest value', () => {
+    const nb = 1000, delta = 1e-10;
+    const res: Resonator = { kind: 'resonator', Rs: 1e4, Q: 1, omegaR: 2 * Math.PI * 1e9 };
+    const sp = new SpectrumPath([{ kind: 'zOverN', X: 5, g0: 0 }, res], nb, delta, 1.5);
+    const I = new Float64Array(nb);
+    for (let i = 0; i < nb; i++) I[i] = Math.exp(-0.5 * ((i - 480) / 60) ** 2) * (1 + 0.1 * Math.sin(i / 7));
+    sp.setBeam(2 * Math.PI * 1e6, 0.8, 1.7);
+    sp.transform(I);
+    const c1 = new Float64Array(nb), v1 = new Float64Array(sp.N), c2 = new Float64Array(nb), v2 = new Float64Array(sp.N);
+    sp.smoothed(c1);
+    sp.addVoltage(v1, sp.N);
+    sp.smoothedAndVoltage(c2, v2, sp.N);
+    const maxAbs = (a: Float64Array) => a.reduce((m, x) => Math.max(m, Math.abs(x)), 0);
+    const maxDiff = (a: Float64Array, b: Float64Array) => a.reduce((m, x, i) => Math.max(m, Math.abs(x - b[i])), 0);
+    expect(maxAbs(v1)).toBeGreaterThan(1); // a voltage to compare
+    expect(maxDiff(c1, c2)).toBeLessThan(1e-12 * maxAbs(c1));
+    expect(maxDiff(v1, v2)).toBeLessThan(1e-12 * maxAbs(v1));
+  });
+});

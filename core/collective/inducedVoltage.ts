@@ -49,12 +49,13 @@ export class InducedVoltage {
     for (let i = 0; i < nb; i++) raw[i] = q[i] * inv;
     const sp = this.spectrum;
     if (sp.active || this.smoothing > 0) sp.transform(raw);
-    if (this.smoothing > 0) sp.smoothed(cur);
-    else cur.set(raw);
     this.tail.fill(0);
-    if (sp.active) {
-      sp.setBeam(ctx.omega0, ctx.beta, ctx.gamma);
-      sp.addVoltage(this.tail, sp.N);
+    if (sp.active) sp.setBeam(ctx.omega0, ctx.beta, ctx.gamma);
+    if (sp.active && this.smoothing > 0) sp.smoothedAndVoltage(cur, this.tail, sp.N);
+    else {
+      if (this.smoothing > 0) sp.smoothed(cur);
+      else cur.set(raw);
+      if (sp.active) sp.addVoltage(this.tail, sp.N);
     }
     for (let i = 0; i < nb; i++) v[i] = this.tail[i];
     if (this.wakes.active) this.wakes.addVoltage(cur, Tb, M, steady, v);

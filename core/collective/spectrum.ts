@@ -29,7 +29,7 @@ export class SpectrumPath {
     while (N < 2 * nb) N *= 2;
     this.N = N;
     this.fft = new FFT(N);
-    this.data = new Float64Array(2 * N);
+    this.data = new Float64Array(N); // real input, zero-padded
     this.spec = new Float64Array(2 * N);
     this.work = new Float64Array(2 * N);
     this.out = new Float64Array(2 * N);
@@ -79,12 +79,29 @@ export class SpectrumPath {
     }
   }
 
-  /** FFT of the current I[0..nb) (zero-padded); keeps the spectrum for the calls below. */
+  /** FFT of the current I[0..nb) (zero-padded, a real transform); keeps the spectrum for the calls below. */
   transform(I: Float64Array): void {
     const d = this.data;
     d.fill(0);
-    for (let i = 0; i < this.nb; i++) d[2 * i] = I[i];
-    this.fft.transform(this.spec, d);
+    d.set(I.subarray(0, this.nb));
+    this.fft.realTransform(this.spec, d);
+    this.fft.completeSpectrum(this.spec);
+  }
+
+  /**
+   * smoothed(cur) and addVoltage(v, len) in one inverse FFT: both spectra are Hermitian (their signals are real),
+   * so the inverse of G·Ĩ + i·(−Z·G·Ĩ) has the smoothed current as its real part and the voltage as its imaginary.
+   */
+  smoothedAndVoltage(cur: Float64Array, v: Float64Array, len = this.nb): void {
+    const s = this.spec, w = this.work, kn = this.kernel, g = this.filter;
+    for (let k = 0; k < this.N; k++) {
+      const a = s[2 * k], b = s[2 * k + 1], c = kn[2 * k], e = kn[2 * k + 1];
+      w[2 * k] = a * g[k] - (a * e + b * c); // Re(G·Ĩ) − Im(K·Ĩ)
+      w[2 * k + 1] = b * g[k] + (a * c - b * e); // Im(G·Ĩ) + Re(K·Ĩ)
+    }
+    this.fft.inverseTransform(this.out, w);
+    for (let i = 0; i < this.nb; i++) cur[i] = this.out[2 * i];
+    for (let i = 0; i < len; i++) v[i] += this.out[2 * i + 1];
   }
 
   /** The smoothed current (inverse FFT of G·Ĩ) into out[0..nb). */
