@@ -135,9 +135,11 @@ export function PhaseSpace() {
       Plotly.react(topRef.current, BUCKET_STYLE.map((d, i) => ({ ...d, x: t.x[i], y: t.y[i] }) as Data), topLayout.current, STATIC);
     };
     if (edited && laidOut.current) {
-      // In the edit's task: the new lines straight into the layer's SVG (fastLine.ts; same window and units only),
-      // else Plotly's update at once. Plotly's own update (or a new window's layout) follows in the draw queue.
-      if (laidOut.current === key && topRef.current && writeTraces(topRef.current, t.x, t.y)) scheduleDraw('bucket', restyle);
+      // In the edit's task: the new lines straight into the layer's SVG, in the window it is laid out in
+      // (fastLine.ts: what Plotly's update would draw there), else Plotly's update at once. Plotly's own update, or
+      // the layout of a new window, follows in the draw queue. (A new window is often wanted while the first frames
+      // of a fresh beam arrive: drawing the edit through Plotly then took 20–45 ms.)
+      if (topRef.current && writeTraces(topRef.current, t.x, t.y)) scheduleDraw('bucket', laidOut.current === key ? restyle : layOut);
       else {
         scheduleDraw('bucket', restyle, 0, true);
         if (laidOut.current !== key) scheduleDraw('bucket', layOut);
