@@ -7,6 +7,7 @@ import { useApp } from '../store.ts';
 import { energyUnit } from '../units.ts';
 import type { DiagRow } from '../../workers/protocol.ts';
 import { BASE_LAYOUT, CONFIG } from './Panel.tsx';
+import { writeTraces } from './fastLine.ts';
 import { scheduleDraw } from './schedule.ts';
 import { useResize } from './useResize.ts';
 
@@ -18,6 +19,30 @@ interface Series {
 
 // Redraw each small plot at most this often while tracking [ms]: a trend needs no 60 Hz.
 const MIN_GAP_MS = 1000;
+// While tracking, the axes are held: x to the next of 1, 2, 5 × 10^k turns past the last turn tracked (to the
+// run's last turn once that is at most ten times further), y with this headroom on each side of the data. Within
+// them a new point is a new SVG path (fastLine.ts, ~0.1 ms) instead of a Plotly redraw (10–35 ms a plot, over 50 ms
+// on a busy machine); the axes move, through Plotly, only when the data leaves them. Plotly gets the data (for
+// hover and PNG) when the run stops.
+const HEADROOM = 0.25;
+
+/** The next of 1, 2, 5 × 10^k at or above x (x > 0). */
+function niceAbove(x: number): number {
+  const p = 10 ** Math.floor(Math.log10(x));
+  for (const m of [1, 2, 5, 10]) if (m * p >= x) return m * p;
+  return 10 * p;
+}
+
+/** Held axis ranges for the points (x ascending; goal: the run's last turn), or the old ones if the points are inside. */
+function heldRanges(x: number[], y: number[], goal: number, old: { x: [number, number]; y: [number, number] } | null) {
+  let lo = Infinity, hi = -Infinity;
+  for (const v of y) if (Number.isFinite(v)) { lo = Math.min(lo, v); hi = Math.max(hi, v); }
+  const xEnd = x[x.length - 1];
+  if (old && xEnd <= old.x[1] && lo >= old.y[0] && hi <= old.y[1]) return old;
+  const span = hi - lo || Math.abs(hi) || 1;
+  const nice = niceAbove(Math.max(xEnd, 1));
+  return { x: [0, goal >= nice && goal <= 10 * nice ? goal : nice] as [number, number], y: [lo - HEADROOM * span, hi + HEADROOM * span] as [number, number] };
+}
 
 const SERIES: Series[] = [
   { id: 'rms-length', title: 'rms length σt [ns]', pick: (r) => r.rmsDt * 1e9 },
@@ -40,6 +65,9 @@ function SmallPlot(props: { s: Series }) {
   const title = useRef<HTMLHeadingElement>(null);
   useResize(ref, 'evo-' + props.s.id);
   const log = useApp((s) => s.log);
+  const running = useApp((s) => s.running);
+  const goal = useApp((s) => s.valid.run.turns); // the run's last turn: x needs no new range before it
+  const held = useRef<{ x: [number, number]; y: [number, number] } | null>(null); // ranges of the last Plotly draw
   useEffect(() => {
     if (log.length === 0) return;
     const energy = props.s.title.includes('{E}');
@@ -52,16 +80,29 @@ function SmallPlot(props: { s: Series }) {
       label = label.replace('{E}', eu.label);
     }
     if (title.current) title.current.textContent = label;
+    const x = log.map((r) => r.turn), y = log.map((r) => props.s.pick(r) * k);
     const data: Data[] = [{
       // Markers while there are too few points to draw a line.
-      type: 'scatter', mode: log.length < 3 ? 'markers' : 'lines', marker: { size: 4, color: '#1f3b5c' },
-      x: log.map((r) => r.turn), y: log.map((r) => props.s.pick(r) * k),
+      type: 'scatter', mode: log.length < 3 ? 'markers' : 'lines', marker: { size: 4, color: '#1f3b5c' }, x, y,
       line: { color: '#1f3b5c', width: 1.3 }, name: props.s.id, hovertemplate: 'turn %{x}<br>%{y:.4g}<extra></extra>',
     }];
     const L = layout.current;
+    const id = 'evo-' + props.s.id;
+    if (!running) {
+      // Idle: Plotly's own autorange, and the data for hover and PNG.
+      held.current = null;
+      L.xaxis = { ...L.xaxis, autorange: true };
+      L.yaxis = { ...L.yaxis, autorange: true };
+    } else {
+      const r = heldRanges(x, y, goal, held.current);
+      if (r === held.current && log.length >= 3 && ref.current && writeTraces(ref.current, [x], [y])) return;
+      held.current = r;
+      L.xaxis = { ...L.xaxis, autorange: false, range: r.x };
+      L.yaxis = { ...L.yaxis, autorange: false, range: r.y };
+    }
     L.datarevision = (L.datarevision as number) + 1;
-    scheduleDraw('evo-' + props.s.id, () => ref.current && Plotly.react(ref.current, data, L, CONFIG), MIN_GAP_MS);
-  }, [log, props.s]);
+    scheduleDraw(id, () => ref.current && Plotly.react(ref.current, data, L, CONFIG), MIN_GAP_MS);
+  }, [log, props.s, running, goal]);
   return (
     <figure className="small-plot">
       <figcaption ref={title}>{props.s.title.replace('{E}', 'eV')}</figcaption>

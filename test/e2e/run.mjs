@@ -225,8 +225,17 @@ const tests = [
       await page.keyboard.press('Escape');
       await page.click('#run');
       const t0 = Date.now();
+      // The evolution plots' lines while tracking: sampled every 100 ms (held axes: new paths without Plotly).
+      await page.evaluate(() => {
+        window.__evoPaths = new Set();
+        window.__evoTimer = setInterval(() => window.__evoPaths.add(document.querySelector('#plot-evo-rms-length path.js-line')?.getAttribute('d')), 100);
+      });
       await page.waitForTimeout(5000);
       const turn = Number(await page.textContent('#turn'));
+      const evo = await page.evaluate(() => {
+        clearInterval(window.__evoTimer);
+        return { paths: window.__evoPaths.size, plotly: performance.getEntriesByName('draw evo-rms-length').length };
+      });
       await page.click('#run');
       const { long, measures } = await page.evaluate(() => ({ long: window.__long, measures: performance.getEntriesByType('measure').map((e) => [e.name, e.startTime, e.duration]) }));
       const max = Math.max(0, ...long.map(([, d]) => d));
@@ -237,8 +246,10 @@ const tests = [
       const inside = long.map(([s, d]) => `${d.toFixed(0)} ms [${measures.filter(([, t, m]) => t < s + d && t + m > s).map(([n, , m]) => `${n} ${m.toFixed(0)}`).join('; ') || 'no app step'}]`);
       const load = `load average ${loadavg()[0].toFixed(1)} on ${cpus().length} cores`;
       console.log(`     1e6 particles: ${turn} turns in ${Date.now() - t0} ms; long tasks: ${long.length}, longest ${max.toFixed(0)} ms; requests ${probe.state.requests}; ${load}`);
+      console.log(`     rms-length plot while tracking: ${evo.paths} different lines seen, ${evo.plotly} Plotly draws`);
       assert(turn >= 5, `only ${turn} turns tracked in 5 s`);
       assert(max <= 50, `long tasks while tracking (${load}): ${inside.join(', ')}`);
+      assert(evo.paths > 2 * evo.plotly, `the evolution line should follow the run between Plotly's draws: ${evo.paths} lines, ${evo.plotly} draws`);
     },
   },
   {
