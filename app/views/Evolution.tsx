@@ -67,7 +67,8 @@ function SmallPlot(props: { s: Series }) {
   const log = useApp((s) => s.log);
   const running = useApp((s) => s.running);
   const goal = useApp((s) => s.valid.run.turns); // the run's last turn: x needs no new range before it
-  const held = useRef<{ x: [number, number]; y: [number, number] } | null>(null); // ranges of the last Plotly draw
+  const held = useRef<{ x: [number, number]; y: [number, number] } | null>(null); // ranges asked of Plotly
+  const shown = useRef<{ x: [number, number]; y: [number, number] } | null>(null); // ranges Plotly has drawn
   useEffect(() => {
     if (log.length === 0) return;
     const energy = props.s.title.includes('{E}');
@@ -95,13 +96,19 @@ function SmallPlot(props: { s: Series }) {
       L.yaxis = { ...L.yaxis, autorange: true };
     } else {
       const r = heldRanges(x, y, goal, held.current);
-      if (r === held.current && log.length >= 3 && ref.current && writeTraces(ref.current, [x], [y])) return;
+      // Straight into the SVG only once Plotly has drawn these axes (a draw may still wait in the queue).
+      if (r === held.current && r === shown.current && log.length >= 3 && ref.current && writeTraces(ref.current, [x], [y])) return;
       held.current = r;
       L.xaxis = { ...L.xaxis, autorange: false, range: r.x };
       L.yaxis = { ...L.yaxis, autorange: false, range: r.y };
     }
     L.datarevision = (L.datarevision as number) + 1;
-    scheduleDraw(id, () => ref.current && Plotly.react(ref.current, data, L, CONFIG), MIN_GAP_MS);
+    const r = held.current;
+    scheduleDraw(id, () => {
+      if (!ref.current) return;
+      Plotly.react(ref.current, data, L, CONFIG);
+      shown.current = r;
+    }, MIN_GAP_MS);
   }, [log, props.s, running, goal]);
   return (
     <figure className="small-plot">

@@ -225,16 +225,19 @@ const tests = [
       await page.keyboard.press('Escape');
       await page.click('#run');
       const t0 = Date.now();
-      // The evolution plots' lines while tracking: sampled every 100 ms (held axes: new paths without Plotly).
+      // An evolution plot's and the line density's lines while tracking, sampled every 100 ms (held axes: new
+      // paths without a Plotly draw).
       await page.evaluate(() => {
-        window.__evoPaths = new Set();
-        window.__evoTimer = setInterval(() => window.__evoPaths.add(document.querySelector('#plot-evo-rms-length path.js-line')?.getAttribute('d')), 100);
+        window.__paths = { evo: new Set(), profile: new Set() };
+        const d = (sel) => document.querySelector(sel + ' path.js-line')?.getAttribute('d');
+        window.__pathTimer = setInterval(() => { window.__paths.evo.add(d('#plot-evo-rms-length')); window.__paths.profile.add(d('#plot-profile')); }, 100);
       });
       await page.waitForTimeout(5000);
       const turn = Number(await page.textContent('#turn'));
-      const evo = await page.evaluate(() => {
-        clearInterval(window.__evoTimer);
-        return { paths: window.__evoPaths.size, plotly: performance.getEntriesByName('draw evo-rms-length').length };
+      const [evo, prof] = await page.evaluate(() => {
+        clearInterval(window.__pathTimer);
+        const draws = (id) => performance.getEntriesByName('draw ' + id).length;
+        return [{ paths: window.__paths.evo.size, plotly: draws('evo-rms-length') }, { paths: window.__paths.profile.size, plotly: draws('profile') }];
       });
       await page.click('#run');
       const { long, measures } = await page.evaluate(() => ({ long: window.__long, measures: performance.getEntriesByType('measure').map((e) => [e.name, e.startTime, e.duration]) }));
@@ -246,10 +249,11 @@ const tests = [
       const inside = long.map(([s, d]) => `${d.toFixed(0)} ms [${measures.filter(([, t, m]) => t < s + d && t + m > s).map(([n, , m]) => `${n} ${m.toFixed(0)}`).join('; ') || 'no app step'}]`);
       const load = `load average ${loadavg()[0].toFixed(1)} on ${cpus().length} cores`;
       console.log(`     1e6 particles: ${turn} turns in ${Date.now() - t0} ms; long tasks: ${long.length}, longest ${max.toFixed(0)} ms; requests ${probe.state.requests}; ${load}`);
-      console.log(`     rms-length plot while tracking: ${evo.paths} different lines seen, ${evo.plotly} Plotly draws`);
+      console.log(`     while tracking, different lines seen / Plotly draws: rms-length plot ${evo.paths} / ${evo.plotly}, line density ${prof.paths} / ${prof.plotly}`);
       assert(turn >= 5, `only ${turn} turns tracked in 5 s`);
       assert(max <= 50, `long tasks while tracking (${load}): ${inside.join(', ')}`);
       assert(evo.paths > 2 * evo.plotly, `the evolution line should follow the run between Plotly's draws: ${evo.paths} lines, ${evo.plotly} draws`);
+      assert(prof.paths > 2 * prof.plotly, `the line density should follow the run between Plotly's draws: ${prof.paths} lines, ${prof.plotly} draws`);
     },
   },
   {
