@@ -45,8 +45,8 @@ export function Profile() {
       // Held axes while tracking (as the evolution plots): y to a top kept while the peak stays within
       // [TOP_LOW, 1] of it; inside them the new profile is a new SVG path.
       const top = (L.yaxis!.range as [number, number] | undefined)?.[1] ?? 0;
-      const key = `${v.dtMin}|${v.dtMax}|${top}`;
-      if (drawn.current === key && peak <= top && peak >= TOP_LOW * top && ref.current && writeSteps(ref.current, x, y)) return;
+      const held = `${v.dtMin}|${v.dtMax}|${top}`;
+      if (drawn.current === held && peak <= top && peak >= TOP_LOW * top && ref.current && writeSteps(ref.current, x, y)) return;
       L.yaxis = { ...L.yaxis, autorange: false, range: [0, peak * TOP_HEADROOM] };
     } else L.yaxis = { ...L.yaxis, autorange: true };
     const key = running && peak > 0 ? `${v.dtMin}|${v.dtMax}|${peak * TOP_HEADROOM}` : '';
