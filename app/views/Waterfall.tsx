@@ -1,17 +1,31 @@
-// Waterfall: line-density profiles at the logged turns stacked against turn (heatmap, turn × dt). Rows binned
-// in an older window (the view follows the bucket) are resampled onto the current bins, so dt stays true.
-import { useEffect, useRef } from 'react';
-import type { Data, Layout } from 'plotly.js';
+// Waterfall: line-density profiles at the logged turns stacked against turn (turn × dt). Rows binned in an older
+// window (the view follows the bucket) are resampled onto the current bins, so dt stays true.
+// Drawn as the phase-space density is: Plotly draws the axes (again only when they move), and the rows are an
+// image on a canvas layer over them (density.ts), each row from its turn halfway to its neighbours'. A Plotly
+// heatmap of the history took 16–51 ms a draw while tracking (it encodes its image as a PNG at every draw).
+import { useCallback, useEffect, useRef } from 'react';
+import type { Layout } from 'plotly.js';
 import Plotly from '../plotly.ts';
 import { useApp } from '../store.ts';
 import type { ProfileRow } from '../../workers/protocol.ts';
-import { BASE_LAYOUT, CONFIG, Panel } from './Panel.tsx';
+import { cellImage, colourTable, plotArea } from './density.ts';
+import { BASE_LAYOUT, CONFIG } from './Panel.tsx';
 import { DENSITY_SCALE } from './PhaseSpace.tsx';
-import { binCentresNs } from './Profile.tsx';
+import { savePng } from './png.ts';
 import { scheduleDraw } from './schedule.ts';
+import { useResize } from './useResize.ts';
 
 // The history changes slowly: redraw at most this often while tracking [ms].
 const MIN_GAP_MS = 1000;
+const LUT = colourTable(DENSITY_SCALE);
+const MARGIN = BASE_LAYOUT.margin;
+
+/** The next of 1, 2, 5 × 10^k at or above x (x > 0): the turn axis grows in these steps, not at every row. */
+export function niceAbove(x: number): number {
+  const p = 10 ** Math.floor(Math.log10(x));
+  for (const m of [1, 2, 5, 10]) if (m * p >= x) return m * p;
+  return 10 * p;
+}
 
 // Converted rows, kept until the window changes: each redraw then converts only the new rows.
 const converted = new WeakMap<ProfileRow, { key: string; values: number[] }>();
@@ -46,31 +60,75 @@ export function resampleRow(r: ProfileRow, dtMin: number, dtMax: number, n: numb
 
 /** The profile-history panel. */
 export function Waterfall() {
-  const ref = useRef<HTMLDivElement>(null);
+  const axesRef = useRef<HTMLDivElement>(null);
+  const rowsRef = useRef<HTMLCanvasElement>(null);
   const layout = useRef<Partial<Layout>>({
     ...BASE_LAYOUT,
-    xaxis: { title: { text: 'dt [ns]' }, zeroline: false },
-    yaxis: { title: { text: 'turn' } },
+    xaxis: { title: { text: 'dt [ns]' }, zeroline: false, type: 'linear', autorange: false },
+    yaxis: { title: { text: 'turn' }, zeroline: false, type: 'linear', autorange: false },
     datarevision: 0,
   });
+  const shownAxes = useRef(''); // the ranges Plotly last drew
+  const redraw = useRef<(() => void) | null>(null); // the last drawing, again after a resize
+  useResize(axesRef, 'waterfall');
+  useResize(rowsRef, 'waterfall-rows', useCallback(() => redraw.current?.(), []));
   const profiles = useApp((s) => s.profiles);
   const frame = useApp((s) => s.frame);
   useEffect(() => {
     if (!frame || profiles.length === 0) return;
     const v = frame.view;
-    const L = layout.current;
-    L.datarevision = (L.datarevision as number) + 1;
-    // Built when drawn, not per frame: the history is redrawn only a few times a second.
+    // Built when drawn, not per frame: the history is redrawn at most once a second while tracking.
     const draw = () => {
-      const n = profiles[profiles.length - 1].profile.length;
-      const data: Data[] = [{
-        type: 'heatmap', z: profiles.map((r) => rowFor(r, v.dtMin, v.dtMax, n)), x: Array.from(binCentresNs(v.dtMin, v.dtMax, n)),
-        y: profiles.map((p) => p.turn), colorscale: DENSITY_SCALE, showscale: false, zsmooth: 'fast',
-        hovertemplate: 'turn %{y}<br>dt %{x:.3g} ns<br>λ %{z:.3g}/ns<extra></extra>',
-      } as Data];
-      if (ref.current) Plotly.react(ref.current, data, L, CONFIG);
+      const rows = profiles.length, n = profiles[rows - 1].profile.length;
+      const turns = profiles.map((p) => p.turn);
+      // Row j spans from halfway to the previous row's turn to halfway to the next one's (a lone row: ±½ turn).
+      const edge = (j: number) => (j <= 0 ? turns[0] - 0.5 * (rows > 1 ? turns[1] - turns[0] : 1) : j >= rows ? turns[rows - 1] + 0.5 * (rows > 1 ? turns[rows - 1] - turns[rows - 2] : 1) : 0.5 * (turns[j - 1] + turns[j]));
+      const xr: [number, number] = [v.dtMin * 1e9, v.dtMax * 1e9];
+      const yr: [number, number] = [Math.min(0, edge(0)), niceAbove(Math.max(edge(rows), 1))];
+      const key = `${xr}|${yr}`;
+      const L = layout.current;
+      if (shownAxes.current !== key && axesRef.current) {
+        L.xaxis!.range = xr;
+        L.yaxis!.range = yr;
+        L.datarevision = (L.datarevision as number) + 1;
+        Plotly.react(axesRef.current, [], L, CONFIG);
+        shownAxes.current = key;
+      }
+      const canvas = rowsRef.current;
+      if (!canvas) return;
+      const hist = new Float32Array(rows * n);
+      for (let j = 0; j < rows; j++) hist.set(rowFor(profiles[j], v.dtMin, v.dtMax, n), j * n);
+      const { image, total } = cellImage(canvas, hist, n, rows, LUT);
+      canvas.dataset.rows = String(rows);
+      canvas.dataset.total = total.toPrecision(6);
+      const area = plotArea(canvas, { margin: MARGIN, xr, yr, k: 1 });
+      if (!area) return;
+      const { g, X, Y } = area, x0 = X(xr[0]), x1 = X(xr[1]);
+      const step = rows > 1 ? turns[1] - turns[0] : 1;
+      if (turns.every((t, j) => t === turns[0] + j * step)) g.drawImage(image, x0, Y(edge(rows)), x1 - x0, Y(edge(0)) - Y(edge(rows)));
+      else {
+        // Uneven rows (the logging interval changed): each on its own, edges on whole pixels (no seams).
+        for (let j = 0; j < rows; j++) {
+          const top = Math.round(Y(edge(j + 1))), bottom = Math.round(Y(edge(j)));
+          if (bottom > top) g.drawImage(image, 0, rows - 1 - j, n, 1, x0, top, x1 - x0, bottom - top); // image row rows−1−j is row j
+        }
+      }
     };
+    redraw.current = draw;
     scheduleDraw('waterfall', draw, MIN_GAP_MS);
   }, [profiles, frame]);
-  return <Panel id="waterfall" title="Profile history" plotRef={ref} />;
+  return (
+    <section className="panel" aria-labelledby="waterfall-title">
+      <header className="panel-head">
+        <h2 id="waterfall-title">Profile history</h2>
+        <button type="button" className="small" onClick={() => savePng([axesRef.current, rowsRef.current], 'phasewell-waterfall')} title="Save this plot as a PNG image">
+          PNG
+        </button>
+      </header>
+      <div className="plot stack">
+        <div className="layer" id="plot-waterfall" ref={axesRef} />
+        <canvas className="layer" id="plot-waterfall-rows" ref={rowsRef} data-rows="0" />
+      </div>
+    </section>
+  );
 }

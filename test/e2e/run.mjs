@@ -110,6 +110,21 @@ const tests = [
       }
       const [len] = await traces(page, 'evo-rms-length');
       assert(new Set(len.y).size > 1, 'the rms length should change over 200 turns');
+      // The profile history: one row per logged turn (0, 10, … 200) on the canvas layer, its ink from turn 0 to
+      // ~200 on the axes and, across dt, where the line density has its particles (two bins of slack each side).
+      await page.waitForFunction(() => document.getElementById('plot-waterfall-rows').dataset.rows === '21', null, { timeout: 5000 });
+      const wf = await page.evaluate(() => {
+        const c = document.getElementById('plot-waterfall-rows'), d = c.getContext('2d').getImageData(0, 0, c.width, c.height).data;
+        let x0 = Infinity, x1 = -Infinity, y0 = Infinity, y1 = -Infinity;
+        for (let y = 0; y < c.height; y++) for (let x = 0; x < c.width; x++) if (d[4 * (y * c.width + x) + 3] > 0) { x0 = Math.min(x0, x); x1 = Math.max(x1, x); y0 = Math.min(y0, y); y1 = Math.max(y1, y); }
+        const L = document.getElementById('plot-waterfall')._fullLayout, s = L._size, xr = L.xaxis.range, yr = L.yaxis.range, dpr = c.width / c.clientWidth;
+        const dtAt = (px) => xr[0] + ((px / dpr - s.l) / s.w) * (xr[1] - xr[0]), turnAt = (py) => yr[1] - ((py / dpr - s.t) / s.h) * (yr[1] - yr[0]);
+        const p = document.getElementById('plot-profile').data[0], xs = Array.from(p.x), ys = Array.from(p.y), on = xs.filter((_, i) => ys[i] > 0), w = xs[1] - xs[0];
+        return { dt: [dtAt(x0), dtAt(x1 + 1)], turns: [turnAt(y1 + 1), turnAt(y0)], profile: [on[0] - w / 2, on[on.length - 1] + w / 2], bin: w, turnPx: (yr[1] - yr[0]) / s.h };
+      });
+      assert(Math.abs(wf.turns[0] - -5) < 2 * wf.turnPx + 1 && Math.abs(wf.turns[1] - 205) < 2 * wf.turnPx + 1, `profile history spans turns ${wf.turns}, rows 0…200 (±5) expected`);
+      assert(wf.dt[0] < wf.profile[0] + 2 * wf.bin && wf.dt[1] > wf.profile[1] - 2 * wf.bin && wf.dt[0] > wf.profile[0] - 6 * wf.bin && wf.dt[1] < wf.profile[1] + 6 * wf.bin,
+        `profile history spans dt ${wf.dt} ns, line density ${wf.profile} ns`);
       assert((await page.textContent('#cycle-time')) !== '0 ns', 'cycle time should advance');
       // A machine change keeps the beam and the turn; a beam change regenerates the beam (turn 0).
       const area = await summary(page, 'area');
