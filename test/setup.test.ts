@@ -3,6 +3,8 @@ import { readFileSync, readdirSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { setupReferenceMarkdown } from '../core/setup/reference.ts';
 import { formatIssue, parseSetup, parseSetupText } from '../core/setup/validate.ts';
+import { setupWarnings } from '../core/setup/warnings.ts';
+import { PROTON_MASS_EV } from '../core/constants.ts';
 
 const example = JSON.parse(readFileSync(new URL('../examples/alder-booster.json', import.meta.url), 'utf8'));
 const clone = () => structuredClone(example);
@@ -102,5 +104,39 @@ describe('reference docs', () => {
     const doc = readFileSync(new URL('../docs/setup-reference.md', import.meta.url), 'utf8');
     expect(doc.endsWith(setupReferenceMarkdown())).toBe(true);
     expect(doc).toMatch(/\| `rf\.systems\[\]\.voltage` \| number \| V \| 0 … 1e9 \|/);
+  });
+});
+
+describe('warnings along the run', () => {
+  // A fictional proton ring with γt = 5, ramped through transition by a constant gain per turn from γ = 4. The
+  // crossing turn follows from the definition of the transition energy, E_t = γt·m (common practice), and a
+  // constant gain: n_t = (γt·m − E0)/ΔE. The warning samples the run 40 times and interpolates η0 linearly
+  // between samples: within half a sample spacing of n_t.
+  const m = PROTON_MASS_EV, gain = 1e5;
+  const ramped = (turns: number, drift: 'linear' | 'exact') => {
+    const r = parseSetup({
+      version: 1, title: 'test ring (fictional)', particle: { kind: 'proton' }, ring: { circumference: 500, gammaT: 5 },
+      energy: { start: { quantity: 'total', value: 4 * m }, ramp: { kind: 'gainPerTurn', value: gain } },
+      rf: { systems: [{ harmonic: 10, voltage: 1e6 }] },
+      beam: { distribution: { kind: 'matched', shape: 'gaussian', size: { by: 'rmsLength', value: 1e-10 } }, particles: 100 },
+      run: { turns, drift, momentumAperture: 0.02, diagnosticsEvery: 10, profileBins: 64 },
+    });
+    if (!r.ok) throw new Error(JSON.stringify(r.errors));
+    return setupWarnings(r.setup).filter((w) => w.path === 'run.drift');
+  };
+  const nT = (5 * m - 4 * m) / gain; // 9383 turns
+
+  it('names the turn where a linear-drift run crosses transition (within half a sample spacing)', () => {
+    const turns = 20000;
+    const w = ramped(turns, 'linear');
+    expect(w).toHaveLength(1);
+    const at = Number(/near turn (\d+)/.exec(w[0].message)?.[1]);
+    expect(Math.abs(at - nT)).toBeLessThan(turns / 40 / 2);
+    expect(w[0].message).toMatch(/crosses transition \(γt = 5\).*use "exact"/);
+  });
+
+  it('says nothing when the run ends before transition, or with the exact drift', () => {
+    expect(ramped(Math.floor(0.9 * nT), 'linear')).toHaveLength(0);
+    expect(ramped(20000, 'exact')).toHaveLength(0);
   });
 });

@@ -28,6 +28,7 @@ export class CycleTimeline {
     const p = makeParticle(setup.particle);
     const k = startKinematics(setup, p);
     this.pc0 = k.pc;
+    this.pcLast = k.pc;
     this.E = k.E;
     const progs = buildPrograms(setup, p, k.pc);
     this.pcProgram = progs.pc ? (t) => progs.pc!.at(t) : null;
@@ -59,15 +60,23 @@ export class CycleTimeline {
 
   /** Machine state at time t [s] (t non-decreasing); the turn index is ∫dt/T0 rounded down. */
   at(t: number): MachineState {
-    if (t < this.t) throw new RangeError(`cycle time ${t} s is before the last one asked (${this.t} s)`);
-    const pc = this.pcAt(t);
-    const T0a = this.stepper.state.T0;
-    const T0b = this.setup.ring.circumference / (fromMomentum(pc, this.stepper.state.particle.mass).beta * C_LIGHT);
-    this.turn += (t - this.t) * 0.5 * (1 / T0a + 1 / T0b); // trapezoid
-    this.t = t;
-    this.stepper.resumeAt(Math.floor(this.turn + 1e-9), t, pc);
+    const { turn, pc } = this.momentumAt(t);
+    this.stepper.resumeAt(turn, t, pc);
     return this.stepper.state;
   }
+
+  /** Turn index and p·c [eV] at time t [s] (t non-decreasing), without the machine state (no φs search). */
+  momentumAt(t: number): { turn: number; pc: number } {
+    if (t < this.t) throw new RangeError(`cycle time ${t} s is before the last one asked (${this.t} s)`);
+    const pc = this.pcAt(t);
+    const C = this.setup.ring.circumference, mass = this.stepper.state.particle.mass;
+    const T0a = C / (fromMomentum(this.pcLast, mass).beta * C_LIGHT), T0b = C / (fromMomentum(pc, mass).beta * C_LIGHT);
+    this.turn += (t - this.t) * 0.5 * (1 / T0a + 1 / T0b); // trapezoid
+    this.t = t;
+    this.pcLast = pc;
+    return { turn: Math.floor(this.turn + 1e-9), pc };
+  }
+  private pcLast = NaN; // p·c at the last time asked
 
   // dE/dt = gain/T0(E): the energy advances by `gain` every revolution.
   private integrateGain(t: number, gain: number): void {

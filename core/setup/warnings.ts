@@ -3,8 +3,9 @@
 // run but may not mean what the user thinks (linear drift near transition, no bucket at turn 0, odd harmonics).
 // Units: energies and p·c in eV, times in s, lengths in m, fields in T.
 import { C_LIGHT } from '../constants.ts';
-import { fromMomentum } from '../kinematics.ts';
-import { MachineStepper, startKinematics } from '../machine.ts';
+import { eta0, eta1, fromMomentum } from '../kinematics.ts';
+import { CycleTimeline } from '../cycle/timeline.ts';
+import { MachineStepper, startKinematics, type MachineState } from '../machine.ts';
 import { makeParticle, type Particle } from '../particle.ts';
 import { pcOf, QUANTITY_UNIT, valueOfPc } from '../program/quantity.ts';
 import { linearlyMatchedSpread } from '../beam/unmatched.ts';
@@ -98,15 +99,48 @@ export function setupWarnings(s: Setup): SetupIssue[] {
   if (m.noBucket) out.push({ path: 'rf.systems[0].voltage', value: sys[0].voltage, message: `${m.noBucket} at turn 0 (only a coasting beam can be tracked)` });
   if (s.run.drift === 'linear') {
     const d = SIGMAS * deltaRms(s, m);
-    const second = Math.abs(m.eta1) * d;
-    if (!(second < NONLINEAR_FRACTION * Math.abs(m.eta0)))
+    const nearAt = linearDriftTrouble(s, m, d);
+    if (nearAt !== null) {
+      const q = nearAt.state, second = Math.abs(q.eta1) * d;
       out.push({
         path: 'run.drift', value: 'linear',
-        message: `near transition: |η0| = ${fmtNum(Math.abs(m.eta0))} is not large against |η1|·δ = ${fmtNum(second)} ` +
-          `(δ ≈ ${SIGMAS}σ of the beam = ${fmtNum(d)}), so the linear drift misrepresents the motion; use "exact"`,
+        message: nearAt.crossing
+          ? `the ramp crosses transition (γt = ${fmtNum(1 / Math.sqrt(m.compaction.alpha0))}) near turn ${q.turn}, within run.turns = ${s.run.turns}: ` +
+            `η0 goes through 0 there, so the linear drift misrepresents the motion; use "exact"`
+          : `near transition${q.turn > 0 ? ` at turn ${q.turn}` : ''}: |η0| = ${fmtNum(Math.abs(q.eta0))} is not large against |η1|·δ = ${fmtNum(second)} ` +
+            `(δ ≈ ${SIGMAS}σ of the beam = ${fmtNum(d)}), so the linear drift misrepresents the motion; use "exact"`,
       });
+    }
   }
   return out;
+}
+
+// Where along the run the linear drift stops being trusted: at turn 0, else at one of RUN_SAMPLES times of the
+// cycle within run.turns (CycleTimeline: the machine at any time without tracking), or where η0 changes sign
+// between two of them (transition crossed; its turn by linear interpolation of η0); null if nowhere. δ is the
+// beam's at turn 0 (it changes slowly).
+const RUN_SAMPLES = 40;
+interface SlipAt { turn: number; eta0: number; eta1: number }
+function linearDriftTrouble(s: Setup, m0: MachineState, d: number): { state: SlipAt; crossing: boolean } | null {
+  const bad = (q: SlipAt) => !(Math.abs(q.eta1) * d < NONLINEAR_FRACTION * Math.abs(q.eta0));
+  if (bad(m0)) return { state: m0, crossing: false };
+  if (s.energy.ramp.kind === 'flat') return null; // η does not change without an energy change
+  const line = new CycleTimeline(s);
+  let turn = 0, eta = m0.eta0;
+  for (let i = 1; i <= RUN_SAMPLES; i++) {
+    const { turn: n, pc } = line.momentumAt((line.duration * i) / RUN_SAMPLES);
+    const k = fromMomentum(pc, m0.particle.mass);
+    const q = { turn: n, eta0: eta0(m0.compaction, k.gamma), eta1: eta1(m0.compaction, k.gamma, k.beta) };
+    if (Math.sign(q.eta0) !== Math.sign(eta)) {
+      const at = Math.round(turn + ((n - turn) * eta) / (eta - q.eta0)); // η0 = 0, linear between the samples
+      return at <= s.run.turns ? { state: { ...q, turn: at }, crossing: true } : null;
+    }
+    if (n > s.run.turns) break;
+    if (bad(q)) return { state: q, crossing: false };
+    turn = n;
+    eta = q.eta0;
+  }
+  return null;
 }
 
 // Rough rms δ of the requested beam from linear matching, PHYSICS.md §9 (capped by the momentum aperture).
