@@ -7,7 +7,7 @@ import { useApp } from '../store.ts';
 import { energyUnit } from '../units.ts';
 import type { DiagRow } from '../../workers/protocol.ts';
 import { BASE_LAYOUT, CONFIG } from './Panel.tsx';
-import { writeTraces } from './fastLine.ts';
+import { keepData, writeTraces } from './fastLine.ts';
 import { scheduleDraw } from './schedule.ts';
 import { useResize } from './useResize.ts';
 
@@ -97,7 +97,7 @@ function SmallPlot(props: { s: Series }) {
     } else {
       const r = heldRanges(x, y, goal, held.current);
       // Straight into the SVG only once Plotly has drawn these axes (a draw may still wait in the queue).
-      if (r === held.current && r === shown.current && log.length >= 3 && ref.current && writeTraces(ref.current, [x], [y])) return;
+      if (r === held.current && r === shown.current && log.length >= 3 && ref.current && writeTraces(ref.current, [x], [y])) return keepData(ref.current, x, y);
       held.current = r;
       L.xaxis = { ...L.xaxis, autorange: false, range: r.x };
       L.yaxis = { ...L.yaxis, autorange: false, range: r.y };

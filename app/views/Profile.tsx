@@ -4,7 +4,7 @@ import type { Data, Layout } from 'plotly.js';
 import Plotly from '../plotly.ts';
 import { useApp } from '../store.ts';
 import { BASE_LAYOUT, CONFIG, Panel } from './Panel.tsx';
-import { writeSteps } from './fastLine.ts';
+import { keepData, writeSteps } from './fastLine.ts';
 import { scheduleDraw } from './schedule.ts';
 
 // Redraw at most this often while tracking [ms].
@@ -46,7 +46,7 @@ export function Profile() {
       // [TOP_LOW, 1] of it; inside them the new profile is a new SVG path.
       const top = (L.yaxis!.range as [number, number] | undefined)?.[1] ?? 0;
       const held = `${v.dtMin}|${v.dtMax}|${top}`;
-      if (drawn.current === held && peak <= top && peak >= TOP_LOW * top && ref.current && writeSteps(ref.current, x, y)) return;
+      if (drawn.current === held && peak <= top && peak >= TOP_LOW * top && ref.current && writeSteps(ref.current, x, y)) return keepData(ref.current, x, y);
       L.yaxis = { ...L.yaxis, autorange: false, range: [0, peak * TOP_HEADROOM] };
     } else L.yaxis = { ...L.yaxis, autorange: true };
     const key = running && peak > 0 ? `${v.dtMin}|${v.dtMax}|${peak * TOP_HEADROOM}` : '';

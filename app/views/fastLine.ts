@@ -56,3 +56,12 @@ export function writeSteps(el: HTMLElement, x: ArrayLike<number>, y: ArrayLike<n
   fill.setAttribute('d', `${d}V${base}H${px(x[0]).toFixed(2)}Z`);
   return true;
 }
+
+/**
+ * Give trace 0 of `el` the data just written into its SVG, without a redraw: a PNG export (which draws afresh from
+ * Plotly's data, in the same axes) then shows it. Hover still reads Plotly's last drawing.
+ */
+export function keepData(el: HTMLElement, x: ArrayLike<number>, y: ArrayLike<number>): void {
+  const d = (el as HTMLElement & { data?: { x?: unknown; y?: unknown }[] }).data?.[0];
+  if (d) { d.x = x; d.y = y; }
+}
