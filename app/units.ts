@@ -56,3 +56,10 @@ export function fmtFreq(hz: number): string {
   if (a < 1e6) return `${fmt(hz / 1e3)} kHz`;
   return `${fmt(hz / 1e6)} MHz`;
 }
+
+/** The next of 1, 2, 5 × 10^k at or above x (x > 0): axis ends that grow in steps a reader follows. */
+export function niceAbove(x: number): number {
+  const p = 10 ** Math.floor(Math.log10(x));
+  for (const m of [1, 2, 5, 10]) if (m * p >= x) return m * p;
+  return 10 * p;
+}

@@ -4,7 +4,7 @@ import { useEffect, useRef } from 'react';
 import type { Data, Layout } from 'plotly.js';
 import Plotly from '../plotly.ts';
 import { useApp } from '../store.ts';
-import { energyUnit } from '../units.ts';
+import { energyUnit, niceAbove } from '../units.ts';
 import type { DiagRow } from '../../workers/protocol.ts';
 import { BASE_LAYOUT, CONFIG } from './Panel.tsx';
 import { keepData, writeTraces } from './fastLine.ts';
@@ -26,12 +26,6 @@ const MIN_GAP_MS = 1000;
 // hover and PNG) when the run stops.
 const HEADROOM = 0.25;
 
-/** The next of 1, 2, 5 × 10^k at or above x (x > 0). */
-function niceAbove(x: number): number {
-  const p = 10 ** Math.floor(Math.log10(x));
-  for (const m of [1, 2, 5, 10]) if (m * p >= x) return m * p;
-  return 10 * p;
-}
 
 /** Held axis ranges for the points (x ascending; goal: the run's last turn), or the old ones if the points are inside. */
 function heldRanges(x: number[], y: number[], goal: number, old: { x: [number, number]; y: [number, number] } | null) {

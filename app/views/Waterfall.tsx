@@ -7,6 +7,7 @@ import { useCallback, useEffect, useRef } from 'react';
 import type { Layout } from 'plotly.js';
 import Plotly from '../plotly.ts';
 import { useApp } from '../store.ts';
+import { niceAbove } from '../units.ts';
 import type { ProfileRow } from '../../workers/protocol.ts';
 import { cellImage, colourTable, plotArea } from './density.ts';
 import { BASE_LAYOUT, CONFIG } from './Panel.tsx';
@@ -20,12 +21,6 @@ const MIN_GAP_MS = 1000;
 const LUT = colourTable(DENSITY_SCALE);
 const MARGIN = BASE_LAYOUT.margin;
 
-/** The next of 1, 2, 5 × 10^k at or above x (x > 0): the turn axis grows in these steps, not at every row. */
-export function niceAbove(x: number): number {
-  const p = 10 ** Math.floor(Math.log10(x));
-  for (const m of [1, 2, 5, 10]) if (m * p >= x) return m * p;
-  return 10 * p;
-}
 
 // Converted rows, kept until the window changes: each redraw then converts only the new rows.
 const converted = new WeakMap<ProfileRow, { key: string; values: number[] }>();
