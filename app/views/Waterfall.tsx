@@ -21,7 +21,6 @@ const MIN_GAP_MS = 1000;
 const LUT = colourTable(DENSITY_SCALE);
 const MARGIN = BASE_LAYOUT.margin;
 
-
 // Converted rows, kept until the window changes: each redraw then converts only the new rows.
 const converted = new WeakMap<ProfileRow, { key: string; values: number[] }>();
 
