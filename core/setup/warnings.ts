@@ -125,7 +125,12 @@ function linearDriftTrouble(s: Setup, m0: MachineState, d: number): { state: Sli
   const bad = (q: SlipAt) => !(Math.abs(q.eta1) * d < NONLINEAR_FRACTION * Math.abs(q.eta0));
   if (bad(m0)) return { state: m0, crossing: false };
   if (s.energy.ramp.kind === 'flat') return null; // η does not change without an energy change
-  const line = new CycleTimeline(s);
+  let line: CycleTimeline;
+  try {
+    line = new CycleTimeline(s);
+  } catch {
+    return null; // no cycle to walk (the tracker reports what is wrong when it runs)
+  }
   let turn = 0, eta = m0.eta0;
   for (let i = 1; i <= RUN_SAMPLES; i++) {
     const { turn: n, pc } = line.momentumAt((line.duration * i) / RUN_SAMPLES);
