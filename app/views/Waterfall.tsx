@@ -7,7 +7,7 @@ import { useCallback, useEffect, useRef } from 'react';
 import type { Layout } from 'plotly.js';
 import Plotly from '../plotly.ts';
 import { useApp } from '../store.ts';
-import { niceAbove } from '../units.ts';
+import { fmt, niceAbove } from '../units.ts';
 import type { ProfileRow } from '../../workers/protocol.ts';
 import { cellImage, colourTable, plotArea } from './density.ts';
 import { BASE_LAYOUT, CONFIG } from './Panel.tsx';
@@ -63,6 +63,8 @@ export function Waterfall() {
     datarevision: 0,
   });
   const shownAxes = useRef(''); // the ranges Plotly last drew
+  // What the canvas shows, for the pointer's read-out (the canvas has no hover of its own).
+  const shown = useRef<{ hist: Float32Array; n: number; turns: number[]; edge: (j: number) => number; xr: [number, number]; yr: [number, number] } | null>(null);
   const redraw = useRef<(() => void) | null>(null); // the last drawing, again after a resize
   useResize(axesRef, 'waterfall');
   useResize(rowsRef, 'waterfall-rows', useCallback(() => redraw.current?.(), []));
@@ -93,6 +95,7 @@ export function Waterfall() {
       const hist = new Float32Array(rows * n);
       for (let j = 0; j < rows; j++) hist.set(rowFor(profiles[j], v.dtMin, v.dtMax, n), j * n);
       const { image, total } = cellImage(canvas, hist, n, rows, LUT);
+      shown.current = { hist, n, turns, edge, xr, yr };
       canvas.dataset.rows = String(rows);
       canvas.dataset.total = total.toPrecision(6);
       const area = plotArea(canvas, { margin: MARGIN, xr, yr, k: 1 });
@@ -111,6 +114,19 @@ export function Waterfall() {
     redraw.current = draw;
     scheduleDraw('waterfall', draw, MIN_GAP_MS);
   }, [profiles, frame]);
+  // Turn, dt and λ under the pointer, as the canvas's tooltip.
+  const readOut = (e: React.MouseEvent<HTMLCanvasElement>) => {
+    const c = e.currentTarget, sh = shown.current;
+    if (!sh) return;
+    const W = c.clientWidth - MARGIN.l - MARGIN.r, H = c.clientHeight - MARGIN.t - MARGIN.b;
+    const dt = sh.xr[0] + ((e.nativeEvent.offsetX - MARGIN.l) / W) * (sh.xr[1] - sh.xr[0]);
+    const turn = sh.yr[1] - ((e.nativeEvent.offsetY - MARGIN.t) / H) * (sh.yr[1] - sh.yr[0]);
+    const i = Math.floor(((dt - sh.xr[0]) / (sh.xr[1] - sh.xr[0])) * sh.n);
+    let j = 0;
+    while (j < sh.turns.length && sh.edge(j + 1) <= turn) j++;
+    const inside = i >= 0 && i < sh.n && j < sh.turns.length && turn >= sh.edge(0);
+    c.title = inside ? `turn ${sh.turns[j]}, dt ${fmt(dt)} ns: λ ${fmt(sh.hist[j * sh.n + i])}/ns` : '';
+  };
   return (
     <section className="panel" aria-labelledby="waterfall-title">
       <header className="panel-head">
@@ -121,7 +137,7 @@ export function Waterfall() {
       </header>
       <div className="plot stack">
         <div className="layer" id="plot-waterfall" ref={axesRef} />
-        <canvas className="layer" id="plot-waterfall-rows" ref={rowsRef} data-rows="0" />
+        <canvas className="layer" id="plot-waterfall-rows" ref={rowsRef} data-rows="0" onMouseMove={readOut} />
       </div>
     </section>
   );

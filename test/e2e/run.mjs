@@ -125,6 +125,16 @@ const tests = [
       assert(Math.abs(wf.turns[0] - -5) < 2 * wf.turnPx + 1 && Math.abs(wf.turns[1] - 205) < 2 * wf.turnPx + 1, `profile history spans turns ${wf.turns}, rows 0…200 (±5) expected`);
       assert(wf.dt[0] < wf.profile[0] + 2 * wf.bin && wf.dt[1] > wf.profile[1] - 2 * wf.bin && wf.dt[0] > wf.profile[0] - 6 * wf.bin && wf.dt[1] < wf.profile[1] + 6 * wf.bin,
         `profile history spans dt ${wf.dt} ns, line density ${wf.profile} ns`);
+      // The pointer's read-out over the middle of the bunch at turn 100.
+      const spot = await page.evaluate(([dtMid]) => {
+        const c = document.getElementById('plot-waterfall-rows'), r = c.getBoundingClientRect();
+        const L = document.getElementById('plot-waterfall')._fullLayout, s = L._size, xr = L.xaxis.range, yr = L.yaxis.range;
+        return [r.left + s.l + ((dtMid - xr[0]) / (xr[1] - xr[0])) * s.w, r.top + s.t + ((yr[1] - 100) / (yr[1] - yr[0])) * s.h];
+      }, [(wf.profile[0] + wf.profile[1]) / 2]);
+      await page.mouse.move(spot[0], spot[1]);
+      const tip = await page.getAttribute('#plot-waterfall-rows', 'title');
+      const m = /^turn (\d+), dt (\S+) ns: λ (\S+)\/ns$/.exec(tip ?? '');
+      assert(m && Math.abs(Number(m[1]) - 100) <= 10 && Number(m[3]) > 0, `read-out over the bunch at turn 100: "${tip}"`);
       assert((await page.textContent('#cycle-time')) !== '0 ns', 'cycle time should advance');
       // A machine change keeps the beam and the turn; a beam change regenerates the beam (turn 0).
       const area = await summary(page, 'area');
