@@ -20,11 +20,11 @@ interface Series {
 // Redraw each small plot at most this often while tracking [ms]: a trend needs no 60 Hz.
 const MIN_GAP_MS = 1000;
 // While tracking, the axes are held: x to the next of 1, 2, 5 × 10^k turns past the last turn tracked (to the
-// run's last turn once that is at most ten times further), y with this headroom on each side of the data. Within
+// run's last turn once that is at most a hundred times further), y with this headroom on each side of the data. Within
 // them a new point is a new SVG path (fastLine.ts, ~0.1 ms) instead of a Plotly redraw (10–35 ms a plot, over 50 ms
 // on a busy machine); the axes move, through Plotly, only when the data leaves them. Plotly's trace gets the data
 // at once (a PNG export shows it), its hover when the run stops.
-const HEADROOM = 0.25;
+const HEADROOM = 0.4;
 
 /** Held axis ranges for the points (x ascending; goal: the run's last turn), or the old ones if the points are inside. */
 function heldRanges(x: number[], y: number[], goal: number, old: { x: [number, number]; y: [number, number] } | null) {
@@ -34,7 +34,7 @@ function heldRanges(x: number[], y: number[], goal: number, old: { x: [number, n
   if (old && xEnd <= old.x[1] && lo >= old.y[0] && hi <= old.y[1]) return old;
   const span = hi - lo || Math.abs(hi) || 1;
   const nice = niceAbove(Math.max(xEnd, 1));
-  return { x: [0, goal >= nice && goal <= 10 * nice ? goal : nice] as [number, number], y: [lo - HEADROOM * span, hi + HEADROOM * span] as [number, number] };
+  return { x: [0, goal >= nice && goal <= 100 * nice ? goal : nice] as [number, number], y: [lo - HEADROOM * span, hi + HEADROOM * span] as [number, number] };
 }
 
 const SERIES: Series[] = [
