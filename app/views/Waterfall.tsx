@@ -63,6 +63,7 @@ export function Waterfall() {
     datarevision: 0,
   });
   const shownAxes = useRef(''); // the ranges Plotly last drew
+  const cells = useRef(new Float32Array(0)); // the rows' values, reused from drawing to drawing
   // What the canvas shows, for the pointer's read-out (the canvas has no hover of its own).
   const shown = useRef<{ hist: Float32Array; n: number; turns: number[]; edge: (j: number) => number; xr: [number, number]; yr: [number, number] } | null>(null);
   const redraw = useRef<(() => void) | null>(null); // the last drawing, again after a resize
@@ -92,7 +93,8 @@ export function Waterfall() {
       }
       const canvas = rowsRef.current;
       if (!canvas) return;
-      const hist = new Float32Array(rows * n);
+      if (cells.current.length < rows * n) cells.current = new Float32Array(2 * rows * n); // grows with the log
+      const hist = cells.current.subarray(0, rows * n);
       for (let j = 0; j < rows; j++) hist.set(rowFor(profiles[j], v.dtMin, v.dtMax, n), j * n);
       const { image, total } = cellImage(canvas, hist, n, rows, LUT);
       shown.current = { hist, n, turns, edge, xr, yr };
