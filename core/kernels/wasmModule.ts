@@ -121,10 +121,7 @@ const load64zero = (addr: Code): Code => [addr, simd(0x5d), 3, 0];
 const shuffle = (a: Code, b: Code, lanes: number[]): Code => [a, b, simd(0x0d), lanes];
 const LO_LANES = [0, 1, 2, 3, 4, 5, 6, 7], HI_LANES = [8, 9, 10, 11, 12, 13, 14, 15];
 const plus16 = (l: number[]) => l.map((x) => x + 16);
-const i32x4 = {
-  min: bin(simd(0xb6)), max: bin(simd(0xb8)), add: bin(simd(0xae)), lane: (a: Code, j: number): Code => [a, simd(0x1b), j],
-  shl: (a: Code, bits: number): Code => [a, i32c(bits), simd(0xab)],
-};
+const i32x4 = { lane: (a: Code, j: number): Code => [a, simd(0x1b), j] };
 const store64lane0 = (addr: Code, v: Code): Code => [addr, v, simd(0x5b), 3, 0, 0];
 
 // One kernel function. Locals: params 0..2, then i32 locals, then v128 locals (declared in that order).
