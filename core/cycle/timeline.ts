@@ -22,6 +22,7 @@ export class CycleTimeline {
   private turn = 0;
   private E: number; // total energy for gainPerTurn ramps [eV]
   private readonly pc0: number;
+  private pcLast: number; // p·c at the last time asked [eV]
 
   constructor(setup: Setup, duration?: number) {
     this.setup = setup;
@@ -76,7 +77,6 @@ export class CycleTimeline {
     this.pcLast = pc;
     return { turn: Math.floor(this.turn + 1e-9), pc };
   }
-  private pcLast = NaN; // p·c at the last time asked
 
   // dE/dt = gain/T0(E): the energy advances by `gain` every revolution.
   private integrateGain(t: number, gain: number): void {
