@@ -224,20 +224,23 @@ export const perfTests = [
       }
       console.log(`     two workers / one: ${(figures[1].workerMpts / figures[0].workerMpts).toFixed(2)}x in the workers, ${(figures[1].appMpts / figures[0].appMpts).toFixed(2)}x in the app`);
       // Tracking alone (no diagnostics, no pictures, the pages idle): the demo's 1e6 particles, exact drift. One page
-      // per worker count; rounds alternate between them, so a change of the machine's load hits both alike.
+      // per worker count; rounds alternate between them, so a change of the machine's load hits both alike. Rounds of
+      // 50 turns, as `npm run bench:wasm -- --threads`: each call also costs 1–3 ms of messages and thread wake-ups
+      // (page wall time against the workers' own), 2–5 % of a two-worker call of 20 turns.
+      const ROUND = 50;
       const pages = [];
       for (const w of [1, 2]) pages.push(await open(ctx, url, `?debug&workers=${w}`, withParticles(1_000_000)));
       for (const tp of pages) await tp.evaluate(() => window.__phasewellDebug.trackSpeed(20, 1)); // warm-up
       const rounds = [];
       for (let r = 0; r < 7; r++) {
         const x = [];
-        for (const tp of pages) x.push(await tp.evaluate(() => window.__phasewellDebug.trackSpeed(20, 1)));
+        for (const tp of pages) x.push(await tp.evaluate((t) => window.__phasewellDebug.trackSpeed(t, 1), ROUND));
         rounds.push(x);
       }
       for (const tp of pages) await tp.close();
       const med = (xs) => [...xs].sort((a, b) => a - b)[xs.length >> 1];
       const split = [med(rounds.map((x) => x[0])), med(rounds.map((x) => x[1]))], ratio = med(rounds.map((x) => x[1] / x[0]));
-      console.log(`     tracking alone, 1e6 particles (demo, exact drift), 7 alternating rounds of 20 turns: one worker ${split[0].toFixed(0)}, two workers ${split[1].toFixed(0)} Mpt/s (median ratio ${ratio.toFixed(2)}x); ${load()}`);
+      console.log(`     tracking alone, 1e6 particles (demo, exact drift), 7 alternating rounds of ${ROUND} turns: one worker ${split[0].toFixed(0)}, two workers ${split[1].toFixed(0)} Mpt/s (median ratio ${ratio.toFixed(2)}x); ${load()}`);
       assert(split.every((x) => x > 0), 'the tracking benchmark must run');
       const page = await open(ctx, url, '', null);
       const volts = [21000, 22000, 23000, 24000, 25000, 26000, 27000, 28000, 29000, 30000];
