@@ -3,7 +3,7 @@
 // Units: dt in s, voltages in V, energies in eV (per bunch in J), charge in C. Runs in the analysis worker
 // (the self-consistent solve takes ~0.1 s).
 import { computeBucket, dtOfPhase } from '../../core/bucket.ts';
-import { distortedWell, impedanceLoss, intensityModel, solveSelfConsistent, voltagesOnGrid } from '../../core/collective/index.ts';
+import { distortedWell, impedanceLoss, type BeamField, intensityModel, solveSelfConsistent, voltagesOnGrid } from '../../core/collective/index.ts';
 import { machineAtStart } from '../../core/machine.ts';
 import type { Setup } from '../../core/setup/schema.ts';
 
@@ -54,7 +54,7 @@ export function intensityReport(setup: Setup): { report: IntensityReport | null;
   // Ahead of the binning window the resonators' continuation is not trusted (it grew to ~1e9 V in the fir
   // example): the beam's field counts inside the window and behind it (the wake), nothing ahead of it.
   const ahead = calc.grid.e0;
-  const field = { grid: calc.grid, voltageAt: (t: number) => (t < ahead ? 0 : calc.voltageAt(t)) } as unknown as typeof calc;
+  const field: BeamField = { grid: calc.grid, voltageAt: (t: number) => (t < ahead ? 0 : calc.voltageAt(t)) };
   const withBeam = distortedWell(m, field, a, b, WELL_POINTS);
   const rfOnly = distortedWell(m, null, a, b, WELL_POINTS);
   const loss = impedanceLoss(calc, model.bunchCharge, model.particlesPerBunch);

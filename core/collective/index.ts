@@ -8,6 +8,6 @@ export { ResonatorWakes, resonatorPoles } from './resonatorWake.ts';
 export { intensityModel, makeInducedVoltage, windowGrid, type IntensityModel } from './model.ts';
 export { solveHaissinski, type HaissinskiOptions, type HaissinskiResult } from './haissinski.ts';
 export { generateSelfConsistentBeam, sampleSelfConsistent, solveSelfConsistent, type SelfConsistentBunch } from './selfConsistent.ts';
-export { distortedWell, impedanceLoss, voltagesOnGrid, type DistortedWell } from './report.ts';
+export { distortedWell, impedanceLoss, voltagesOnGrid, type BeamField, type DistortedWell } from './report.ts';
 export { intensitySummary } from './summary.ts';
 export { importImpedanceCsv, type ImpedanceCsvIssue, type ImpedanceCsvResult, type ImpedanceTableSetup } from './impedanceCsv.ts';

@@ -35,8 +35,11 @@ export interface DistortedWell {
   separatrix: { dt: Float64Array; dE: Float64Array; Usep: number } | null;
 }
 
+/** The beam's field as the well needs it: its binning window and V_ind [V] at any dt [s]. */
+export type BeamField = Pick<InducedVoltage, 'grid' | 'voltageAt'>;
+
 /** U and the separatrix over dt ∈ [dtMin, dtMax] on `points` samples; the bottom is the lowest U inside calc's window (or anywhere without calc). */
-export function distortedWell(m: MachineState, calc: InducedVoltage | null, dtMin: number, dtMax: number, points = 2001): DistortedWell {
+export function distortedWell(m: MachineState, calc: BeamField | null, dtMin: number, dtMax: number, points = 2001): DistortedWell {
   if (!(points >= 3 && dtMax > dtMin)) throw new RangeError(`distortedWell: needs dtMax > dtMin and ≥ 3 points, got [${dtMin}, ${dtMax}] with ${points}`);
   const h = (dtMax - dtMin) / (points - 1);
   const dt = new Float64Array(points), U = new Float64Array(points), gain = new Float64Array(points);
