@@ -204,8 +204,10 @@ function kernelBody(rf: number, drift: DriftKind, induced = false): Code {
         set(L.R, v128xor(g(L.R), i64x2shl(g(L.KB), 63))), // r·(−1)^k: the parity bit of k moved to the sign bit
         set(L.R2, mul(g(L.R), g(L.R))),
       );
-      let poly = C[C.length - 1];
-      for (let j = C.length - 2; j >= 0; j--) poly = add(C[j], mul(g(L.R2), poly));
+      // Estrin's scheme: (c1 + c3 r²) + r⁴·((c5 + c7 r²) + r⁴·c9), a shorter dependency chain than Horner's
+      body.push(set(L.K, mul(g(L.R2), g(L.R2)))); // r⁴ (k is no longer needed)
+      const r4 = g(L.K);
+      const poly = add(add(C[0], mul(C[1], g(L.R2))), mul(r4, add(add(C[2], mul(C[3], g(L.R2))), mul(r4, C[4]))));
       const term = mul(A(k), mul(g(L.R), poly));
       body.push(set(L.ACC, k === 0 ? term : add(g(L.ACC), term)));
     }
