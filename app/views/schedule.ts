@@ -1,7 +1,8 @@
-// Coalesces plot redraws: each plot asks to be drawn, and at most a ~12 ms slice of drawing starts per animation
-// frame (oldest request first), so no single main-thread task grows long while the tracker streams frames.
-// Each plot is drawn in its own task posted from the animation-frame callback, not inside it: the browser's
-// style, layout and paint then form separate tasks instead of adding to the drawing ones.
+// Coalesces plot redraws: each plot asks to be drawn, and at most a ~12 ms slice of drawing runs per frame interval
+// (oldest request first), so no single main-thread task grows long while the tracker streams frames.
+// Each plot is drawn in its own task (posted from an animation-frame callback, or at once while tracking), not
+// inside the callback: the browser's style, layout and paint then form separate tasks instead of adding to the
+// drawing ones. While every request waits for its gap, the queue sleeps on a timer until the first is due.
 // While the tracker runs, a plot may ask for a minimum gap between its redraws (slow-changing plots need not
 // follow every frame), and the gap also grows with the plot's last drawing time, so a slow or busy machine gets
 // fewer, not longer, redraws. When the tracker is idle, edits are drawn at once.
