@@ -4,7 +4,7 @@
 // printed, not asserted: on a shared 2-core
 // machine they follow the load of the neighbours (the load average is printed beside them). Asserted: the size
 // budget, that two workers give the same diagnostics as one, and loose floors that catch a stalled page.
-import { readdirSync, readFileSync, statSync } from 'node:fs';
+import { existsSync, readdirSync, readFileSync, statSync } from 'node:fs';
 import { join } from 'node:path';
 import { cpus, loadavg } from 'node:os';
 import { gzipSync } from 'node:zlib';
@@ -32,6 +32,27 @@ async function open(ctx, url, query, doc) {
   await page.goto(url + query + (doc ? linkFor(doc) : ''));
   await waitReady(page, 60000);
   return page;
+}
+
+// CPU time [s] of Chromium's renderer main threads and of its dedicated workers, from /proc (Linux; null elsewhere).
+function rendererCpu() {
+  if (!existsSync('/proc/self/task')) return null;
+  const tick = 0.01; // USER_HZ = 100 on Linux
+  const out = { main: 0, workers: 0 };
+  for (const pid of readdirSync('/proc').filter((x) => /^\d+$/.test(x))) {
+    try {
+      if (!readFileSync(`/proc/${pid}/cmdline`, 'utf8').includes('--type=renderer')) continue;
+      for (const tid of readdirSync(`/proc/${pid}/task`)) {
+        const st = readFileSync(`/proc/${pid}/task/${tid}/stat`, 'utf8');
+        const name = st.slice(st.indexOf('(') + 1, st.lastIndexOf(')'));
+        const f = st.slice(st.lastIndexOf(')') + 2).split(' ');
+        const cpu = (Number(f[11]) + Number(f[12])) * tick; // utime + stime
+        if (tid === pid) out.main += cpu;
+        else if (name.startsWith('DedicatedWorker')) out.workers += cpu;
+      }
+    } catch { /* a process or thread that ended meanwhile */ }
+  }
+  return out;
 }
 
 function withParticles(n) {
@@ -65,11 +86,11 @@ async function trackFigures(ctx, url, workers, ms) {
   const mem0 = await page.evaluate(() => window.__phasewellDebug.memory());
   await page.evaluate(() => { window.__long = []; performance.clearMeasures(); window.__phasewellDebug.resetStats(); });
   const turn0 = Number(await page.textContent('#turn'));
-  const t0 = Date.now();
+  const t0 = Date.now(), cpu0 = rendererCpu();
   await page.click('#run');
   await page.waitForTimeout(ms);
   await page.click('#run');
-  const wall = (Date.now() - t0) / 1000;
+  const wall = (Date.now() - t0) / 1000, cpu1 = rendererCpu();
   await page.waitForFunction(() => document.getElementById('run').textContent === 'Run');
   const r = await page.evaluate(() => ({
     long: window.__long, stats: window.__phasewellDebug.stats(),
@@ -85,6 +106,8 @@ async function trackFigures(ctx, url, workers, ms) {
     appMpts: (turns * 1e6) / wall / 1e6,
     densityFps: r.draws / wall,
     drawShare: r.drawMs / 1000 / wall, // of one core: the page's plot calls (layout, paint and compositing come on top)
+    // of one core: the page's main thread (scripts, layout, paint), and the tracking workers together
+    mainShare: cpu0 && cpu1 ? (cpu1.main - cpu0.main) / wall : NaN, workerShare: cpu0 && cpu1 ? (cpu1.workers - cpu0.workers) / wall : NaN,
     frames: r.stats.frames / wall,
     longTasks: r.long.length, longest: Math.max(0, ...r.long),
     memoryMB: mem1.map((m) => (m.bufferBytes / 2 ** 20).toFixed(1) + (m.heapBytes ? `+${(m.heapBytes / 2 ** 20).toFixed(1)} heap` : '')).join(', '),
@@ -219,7 +242,8 @@ export const perfTests = [
         const f = await trackFigures(ctx, url, w, 8000);
         figures.push(f);
         console.log(`     1e6 particles, ${f.workers} worker(s): ${f.turns} turns in ${f.wall.toFixed(1)} s; ${f.workerMpts.toFixed(0)} Mpt/s in the workers, ${f.appMpts.toFixed(0)} Mpt/s in the app; ` +
-          `${f.densityFps.toFixed(1)} density pictures/s (plot calls ${(100 * f.drawShare).toFixed(0)} % of a core), ${f.frames.toFixed(1)} frames/s received; long tasks ${f.longTasks}, longest ${f.longest.toFixed(0)} ms; ` +
+          `${f.densityFps.toFixed(1)} density pictures/s (plot calls ${(100 * f.drawShare).toFixed(0)} % of a core), ${f.frames.toFixed(1)} frames/s received; ` +
+          `CPU: page's main thread ${(100 * f.mainShare).toFixed(0)} %, workers ${(100 * f.workerShare).toFixed(0)} % of a core; long tasks ${f.longTasks}, longest ${f.longest.toFixed(0)} ms; ` +
           `worker memory ${f.memoryMB} MB (heap growth ${f.memoryGrowthMB.toFixed(1)} MB); ${load()}`);
       }
       console.log(`     two workers / one: ${(figures[1].workerMpts / figures[0].workerMpts).toFixed(2)}x in the workers, ${(figures[1].appMpts / figures[0].appMpts).toFixed(2)}x in the app`);
