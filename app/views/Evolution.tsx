@@ -10,6 +10,7 @@ import { BASE_LAYOUT, CONFIG } from './Panel.tsx';
 import { keepData, writeTraces } from './fastLine.ts';
 import { scheduleDraw } from './schedule.ts';
 import { useResize } from './useResize.ts';
+import { usePointerOver } from './usePointerOver.ts';
 
 interface Series {
   id: string;
@@ -23,7 +24,7 @@ const MIN_GAP_MS = 1000;
 // run's last turn once that is at most a hundred times further), y with this headroom on each side of the data. Within
 // them a new point is a new SVG path (fastLine.ts, ~0.1 ms) instead of a Plotly redraw (10–35 ms a plot, over 50 ms
 // on a busy machine); the axes move, through Plotly, only when the data leaves them. Plotly's trace gets the data
-// at once (a PNG export shows it), its hover when the run stops.
+// at once (a PNG export shows it); its hover follows when the run stops, or once a second under the pointer.
 const HEADROOM = 0.4;
 
 /** Held axis ranges for the points (x ascending; goal: the run's last turn), or the old ones if the points are inside. */
@@ -57,6 +58,7 @@ function SmallPlot(props: { s: Series }) {
   });
   const title = useRef<HTMLHeadingElement>(null);
   useResize(ref, 'evo-' + props.s.id);
+  const over = usePointerOver(ref);
   const log = useApp((s) => s.log);
   const running = useApp((s) => s.running);
   const goal = useApp((s) => s.valid.run.turns); // the run's last turn: x needs no new range before it
@@ -90,7 +92,10 @@ function SmallPlot(props: { s: Series }) {
     } else {
       const r = heldRanges(x, y, goal, held.current);
       // Straight into the SVG only once Plotly has drawn these axes (a draw may still wait in the queue).
-      if (r === held.current && r === shown.current && log.length >= 3 && ref.current && writeTraces(ref.current, [x], [y])) return keepData(ref.current, x, y);
+      if (r === held.current && r === shown.current && log.length >= 3 && ref.current && writeTraces(ref.current, [x], [y])) {
+        keepData(ref.current, x, y);
+        if (!over.current) return; // else Plotly's drawing follows too (once a second at most: MIN_GAP_MS), for its hover
+      }
       held.current = r;
       L.xaxis = { ...L.xaxis, autorange: false, range: r.x };
       L.yaxis = { ...L.yaxis, autorange: false, range: r.y };
@@ -102,7 +107,7 @@ function SmallPlot(props: { s: Series }) {
       Plotly.react(ref.current, data, L, CONFIG);
       shown.current = r;
     }, MIN_GAP_MS);
-  }, [log, props.s, running, goal]);
+  }, [log, props.s, running, goal, over]);
   return (
     <figure className="small-plot">
       <figcaption ref={title}>{props.s.title.replace('{E}', 'eV')}</figcaption>

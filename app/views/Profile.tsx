@@ -6,6 +6,7 @@ import { useApp } from '../store.ts';
 import { BASE_LAYOUT, CONFIG, Panel } from './Panel.tsx';
 import { keepData, writeSteps } from './fastLine.ts';
 import { scheduleDraw } from './schedule.ts';
+import { HOVER_REDRAW_MS, usePointerOver } from './usePointerOver.ts';
 
 // Redraw at most this often while tracking [ms].
 const MIN_GAP_MS = 200;
@@ -32,6 +33,7 @@ export function Profile() {
   const frame = useApp((s) => s.frame);
   const running = useApp((s) => s.running);
   const drawn = useRef(''); // the axes Plotly has drawn (x window, y top) while tracking, else ''
+  const over = usePointerOver(ref);
   useEffect(() => {
     if (!frame || frame.profile.length === 0) return; // not binned this frame (runner: PROFILE_EVERY_MS)
     const v = frame.view;
@@ -46,7 +48,14 @@ export function Profile() {
       // [TOP_LOW, 1] of it; inside them the new profile is a new SVG path.
       const top = (L.yaxis!.range as [number, number] | undefined)?.[1] ?? 0;
       const held = `${v.dtMin}|${v.dtMax}|${top}`;
-      if (drawn.current === held && peak <= top && peak >= TOP_LOW * top && ref.current && writeSteps(ref.current, x, y)) return keepData(ref.current, x, y);
+      if (drawn.current === held && peak <= top && peak >= TOP_LOW * top && ref.current && writeSteps(ref.current, x, y)) {
+        keepData(ref.current, x, y);
+        if (!over.current) return;
+        // under the pointer: Plotly's drawing in the same axes follows, at most once a second, for its hover
+        const data: Data[] = [{ ...(ref.current as unknown as { data: Data[] }).data[0] }];
+        L.datarevision = (L.datarevision as number) + 1;
+        return scheduleDraw('profile', () => ref.current && Plotly.react(ref.current, data, L, CONFIG), HOVER_REDRAW_MS);
+      }
       L.yaxis = { ...L.yaxis, autorange: false, range: [0, peak * TOP_HEADROOM] };
     } else L.yaxis = { ...L.yaxis, autorange: true };
     const key = running && peak > 0 ? `${v.dtMin}|${v.dtMax}|${peak * TOP_HEADROOM}` : '';
@@ -58,6 +67,6 @@ export function Profile() {
       Plotly.react(ref.current, data, L, CONFIG);
       drawn.current = key;
     }, MIN_GAP_MS);
-  }, [frame, running]);
+  }, [frame, running, over]);
   return <Panel id="profile" title="Line density" plotRef={ref} />;
 }

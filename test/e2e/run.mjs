@@ -282,6 +282,44 @@ const tests = [
     },
   },
   {
+    name: 'while tracking, the hover read-out of an evolution plot follows the run (its line is written without Plotly)',
+    async fn({ ctx, url }) {
+      const page = await openApp(ctx, url);
+      // A run that outlasts the test, with x held to its last turn, and a plot whose y stays put (all inside the
+      // bucket): Plotly has no reason of its own to redraw it.
+      await page.fill('#f-run-turns', '50000');
+      await page.fill('#f-beam-particles', '400000'); // a few hundred turns a second
+      await page.waitForFunction(() => Number(document.getElementById('plot-phase-density')?.dataset.counts ?? 0) > 3.6e5 && document.getElementById('status').textContent === 'ready', null, { timeout: 40000 });
+      await page.keyboard.press('Escape');
+      await page.click('#run');
+      await page.waitForTimeout(1500);
+      // Keep the pointer on the newest point of the line (the data Plotly's trace holds, kept current by the app).
+      const newest = () => page.evaluate(() => {
+        const el = document.getElementById('plot-evo-inside'), L = el._fullLayout, d = el.data[0], n = d.x.length;
+        const r = el.getBoundingClientRect();
+        return { px: r.left + L._size.l + L.xaxis.l2p(d.x[n - 1]), py: r.top + L._size.t + L.yaxis.l2p(d.y[n - 1]), turn: d.x[n - 1] };
+      });
+      let p = null;
+      for (let k = 0; k < 14; k++) {
+        p = await newest();
+        await page.mouse.move(p.px + (k % 2), p.py);
+        await page.waitForTimeout(250);
+      }
+      // The label's lines are tspans: "turn N", then the value.
+      const label = await page.evaluate(() => [...document.querySelectorAll('#plot-evo-inside .hoverlayer .hovertext text tspan.line')].map((t) => t.textContent).join(' | '));
+      const perSecond = await page.evaluate(async () => {
+        const t0 = Number(document.getElementById('turn').textContent);
+        await new Promise((r) => setTimeout(r, 1000));
+        return Number(document.getElementById('turn').textContent) - t0;
+      });
+      await page.click('#run');
+      const shown = Number(/^turn\s*([\d,]+) \|/.exec(label)?.[1].replace(/,/g, '') ?? NaN);
+      console.log(`     hover read-out "${label}" with the newest point at turn ${p.turn}; ${perSecond} turns/s`);
+      // Plotly draws the plot under the pointer at most once a second: its newest point is at most ~1.5 s old.
+      assert(shown >= p.turn - 1.5 * perSecond - 20, `the hover shows turn ${shown} (label "${label}"), the run is at turn ${p.turn} (${perSecond} turns/s)`);
+    },
+  },
+  {
     name: 'after one visit the app opens offline, also from a sub-path',
     async fn({ ctx, probe }) {
       const sub = await serve(ROOT + 'dist', '/some/sub/path/');
