@@ -59,7 +59,8 @@ export function writeSteps(el: HTMLElement, x: ArrayLike<number>, y: ArrayLike<n
 
 /**
  * Give trace 0 of `el` the data just written into its SVG, without a redraw: a PNG export (which draws afresh from
- * Plotly's data, in the same axes) then shows it. Hover still reads Plotly's last drawing.
+ * Plotly's data, in the same axes) then shows it. Hover reads Plotly's last drawing: a plot under the pointer asks
+ * for one at most once a second (usePointerOver.ts).
  */
 export function keepData(el: HTMLElement, x: ArrayLike<number>, y: ArrayLike<number>): void {
   const d = (el as HTMLElement & { data?: { x?: unknown; y?: unknown }[] }).data?.[0];
