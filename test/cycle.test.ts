@@ -8,7 +8,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { computeBucket } from '../core/bucket.ts';
-import { constantBucketVoltage, fastestRamp } from '../core/cycle/design.ts';
+import { areaWith, constantBucketVoltage, fastestRamp, largestGain } from '../core/cycle/design.ts';
 import { planCycle } from '../core/cycle/planner.ts';
 import { MachineStepper, machineAtStart, type MachineState } from '../core/machine.ts';
 import { withMomentumProgram, withRfProgram } from '../core/program/apply.ts';
@@ -125,6 +125,17 @@ describe('design helpers', () => {
     expect(n).toBeGreaterThan(300);
     expect(worst).toBeLessThan(0.01);
     console.log(`constant-area program: ${res.programs[0].points.length + 1} points, worst area deviation ${worst}`);
+  });
+
+  it('the largest gain per turn for a bucket area is the boundary: its bucket has the area, one 1e-6 more does not', () => {
+    const m = machineAtStart(setupOf(() => {}));
+    const A0 = areaWith(m, 1, 0);
+    for (const q of [0.9, 0.5, 0.1, 0.01]) {
+      const x = largestGain(m, q * A0);
+      expect(x).toBeGreaterThan(0);
+      expect(areaWith(m, 1, x)).toBeGreaterThanOrEqual(q * A0);
+      expect(areaWith(m, 1, x * (1 + 1e-6))).toBeLessThan(q * A0);
+    }
   });
 
   it('the fastest ramp at a filling factor holds the bucket at emittance/filling on the tracked machine (≥ and within 2 %)', () => {

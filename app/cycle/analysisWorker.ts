@@ -6,7 +6,7 @@ import type { Setup } from '../../core/setup/schema.ts';
 import { intensityReport, type IntensityReport } from '../intensity/report.ts';
 import type { Answer, Proposal } from './types.ts';
 
-// Samples of the planner (0.2 s for a 400-sample cycle) and steps of the fastest ramp (~25 ms each).
+// Samples of the planner (0.2 s for a 400-sample cycle) and steps of the fastest ramp (~5 ms each).
 const PLAN_SAMPLES = 400;
 const RAMP_STEPS = 60;
 

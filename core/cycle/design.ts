@@ -87,13 +87,7 @@ export function fastestRamp(
     st.resumeAt(0, t, pc);
     const m = st.state;
     if (areaWith(m, 1, 0) < area) throw new RangeError(`at t = ${t} s, p·c = ${pc} eV even a stationary bucket is smaller than ${area} eV·s: lower the filling target or raise the voltage`);
-    let lo = 0, hi = Math.abs(m.wave.ZV.reduce((a, z) => a + Math.abs(z), 0));
-    for (let k = 0; k < 50; k++) {
-      const mid = 0.5 * (lo + hi);
-      if (areaWith(m, 1, mid) >= area) lo = mid;
-      else hi = mid;
-    }
-    return lo / (m.beta * m.T0);
+    return largestGain(m, area) / (m.beta * m.T0);
   };
   const points: [number, number][] = [];
   let t = 0, pc = pc0;
@@ -106,6 +100,34 @@ export function fastestRamp(
   }
   return { area, program: { quantity: 'momentum', start: pc0, points } };
 }
+
+/**
+ * The largest energy gain per turn dEs [eV] whose bucket still has `area` (state m's RF as it is; the area at dEs = 0
+ * is at least `area`): regula falsi (Illinois) on area(dEs) − area, which falls from ≥ 0 at 0 to −area at Σ|Z·V|,
+ * to a bracket of 1e-10 of Σ|Z·V| or an area within GAIN_TOL; returns the bracket's side that keeps the area
+ * (about 10 bucket areas instead of the 51 of bisection to the last bit: the helper runs 3× faster).
+ */
+export function largestGain(m: MachineState, area: number): number {
+  let lo = 0, hi = m.wave.ZV.reduce((a, z) => a + Math.abs(z), 0);
+  let glo = areaWith(m, 1, lo) - area, ghi = -area, side = 0;
+  for (let k = 0; k < 100 && hi - lo > 1e-10 * hi; k++) {
+    let x = (lo * ghi - hi * glo) / (ghi - glo);
+    if (!(x > lo && x < hi)) x = 0.5 * (lo + hi);
+    const gx = areaWith(m, 1, x) - area;
+    if (gx >= 0) {
+      lo = x; glo = gx;
+      if (gx <= GAIN_TOL * area) break;
+      if (side === 1) ghi /= 2;
+      side = 1;
+    } else {
+      hi = x; ghi = gx;
+      if (side === -1) glo /= 2;
+      side = -1;
+    }
+  }
+  return lo;
+}
+const GAIN_TOL = 1e-7; // relative area margin of the fastest ramp's solved gains
 
 // Common voltage scale f with area(f) = target: regula falsi (Illinois) in (log f, log area) after bracketing.
 function solveScale(m: MachineState, area: number, guess: number, t: number): number {
