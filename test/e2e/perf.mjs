@@ -180,6 +180,30 @@ async function separatrixMs(page, field, values) {
   return { numbersMs: med(0, first), separatrixMs: med(1, first), warmNumbersMs: med(0, warm), warmSeparatrixMs: med(1, warm), taskMs: medTask(first), warmTaskMs: medTask(warm) };
 }
 
+// Edits typed as a user does (the field's last digit selected and replaced: one input event each), on an idle page,
+// as Chromium's Event Timing sees them: the keypress's own processing (the input handler runs inside it) and its
+// duration from the key event to the next frame presented after it (multiples of 8 ms; entries under 16 ms are not
+// reported, and count here as 16).
+async function typedEdits(page, field, n) {
+  await page.evaluate(() => {
+    window.__keys = [];
+    new PerformanceObserver((l) => { for (const e of l.getEntries()) if (e.name === 'keypress') window.__keys.push([e.processingEnd - e.processingStart, e.duration]); })
+      .observe({ type: 'event', durationThreshold: 16 });
+  });
+  await page.click('#' + field);
+  for (let k = 0; k < n; k++) {
+    await page.keyboard.press('End');
+    await page.keyboard.press('Shift+ArrowLeft');
+    await page.waitForTimeout(200);
+    await page.keyboard.type(String((k + 1) % 10));
+    await page.waitForTimeout(800); // the plots redrawn after the edit settle
+  }
+  const keys = await page.evaluate(() => window.__keys);
+  const med = (xs) => [...xs].sort((a, b) => a - b)[xs.length >> 1];
+  const durations = [...keys.map((k) => k[1]), ...Array(Math.max(0, n - keys.length)).fill(16)];
+  return { processingMs: keys.length ? med(keys.map((k) => k[0])) : NaN, durationMs: med(durations), under16: n - keys.length };
+}
+
 /** Speed and size tests (registered in run.mjs). */
 export const perfTests = [
   {
@@ -274,9 +298,13 @@ export const perfTests = [
       await page.goto(url + 'index.html' + linkFor(two));
       await waitReady(page);
       const several = await separatrixMs(page, 'f-rf-systems-0-voltage', volts);
+      await page.goto(url + 'index.html' + linkFor(demo));
+      await waitReady(page);
+      const typed = await typedEdits(page, 'f-rf-systems-0-voltage', 10);
       console.log(`     edit → bucket numbers / separatrix drawn [ms, median of 5]: 1 RF ${one.numbersMs.toFixed(1)} / ${one.separatrixMs.toFixed(1)}; 2 RF ${several.numbersMs.toFixed(1)} / ${several.separatrixMs.toFixed(1)}; ` +
         `the next 5 edits (warm): 1 RF ${one.warmSeparatrixMs.toFixed(1)}, 2 RF ${several.warmSeparatrixMs.toFixed(1)}; ` +
         `the edit's own task (new numbers and line at its end), first 5 / next 5: 1 RF ${one.taskMs.toFixed(1)} / ${one.warmTaskMs.toFixed(1)}, 2 RF ${several.taskMs.toFixed(1)} / ${several.warmTaskMs.toFixed(1)}; ${load()}`);
+      console.log(`     10 typed edits, 1 RF (Event Timing): keypress processing ${typed.processingMs.toFixed(1)} ms, key → next frame ${typed.durationMs} ms (medians; ${typed.under16} under 16 ms); ${load()}`);
       // The turn kernel alone in the tracking worker (core/kernels/speed.ts), on an idle page.
       const kp = await open(ctx, url, '?debug', null);
       const ks = await kp.evaluate(() => window.__phasewellDebug.kernelSpeeds());
