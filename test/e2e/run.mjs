@@ -283,6 +283,7 @@ const tests = [
   },
   {
     name: 'while tracking, the hover read-out of an evolution plot follows the run (its line is written without Plotly)',
+    loadSensitive: true,
     async fn({ ctx, url }) {
       const page = await openApp(ctx, url);
       // A run that outlasts the test, with x held to its last turn, and a plot whose y stays put (all inside the
