@@ -97,12 +97,17 @@ function queue(): void {
   if (queued) return;
   queued = true;
   const now = performance.now();
-  if (now - frameStart >= FRAME_MS) [frameStart, drawnMs] = [now, 0];
+  if (now - frameStart >= FRAME_MS) newFrame(now);
   if (drawnMs < SLICE_MS && useApp.getState().running) channel.port2.postMessage(null);
   else requestAnimationFrame(() => {
-    [frameStart, drawnMs] = [performance.now(), 0];
+    newFrame(performance.now());
     channel.port2.postMessage(null);
   });
+}
+
+function newFrame(now: number): void {
+  frameStart = now;
+  drawnMs = 0;
 }
 
 // A timer for the first plot that waits for its gap, and when it fires.
